@@ -1,0 +1,47 @@
+#pragma once
+/// One cell's equivalent-circuit parameters (Thevenin model with up to two RC pairs).
+/// Plain data, SI inside; tables over state of charge (0..1) or temperature (°C).
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "core/table.hpp"
+
+namespace sortie::battery {
+
+/// One RC pair: resistance and time constant, each constant or a table over SoC.
+struct RcPair {
+  Table r_ohm{0.001};  ///< Ω
+  Table tau_s{10.0};   ///< s
+};
+
+/// Resistance and capacity factors over cell temperature (°C), both 1 at the reference.
+struct TemperatureEffect {
+  Table r_factor{1.0};         ///< multiplies R0 and every R_k
+  Table capacity_factor{1.0};  ///< multiplies the capacity
+};
+
+struct Cell {
+  std::string name;
+  std::string chemistry;
+  double capacity_Ah = 1.0;    ///< rated capacity, Ah
+  double mass_kg = 0.05;       ///< kg
+  double v_max_V = 4.2;        ///< full-charge voltage, V
+  double v_cutoff_V = 3.3;     ///< default end-of-discharge loaded voltage, V
+  double i_cont_max_A = 10.0;  ///< continuous current limit, A
+  Table ocv_V{3.7};            ///< open-circuit voltage over SoC, V
+  Table r0_ohm{0.01};          ///< series resistance over SoC, Ω
+  std::vector<RcPair> rc;      ///< zero, one or two RC pairs
+  std::optional<TemperatureEffect> temperature;
+
+  /// Resistance multiplier at `temperature_C` (1 without a temperature table).
+  double r_factor(double temperature_C) const {
+    return temperature ? temperature->r_factor(temperature_C) : 1.0;
+  }
+  /// Capacity multiplier at `temperature_C` (1 without a temperature table).
+  double capacity_factor(double temperature_C) const {
+    return temperature ? temperature->capacity_factor(temperature_C) : 1.0;
+  }
+};
+
+}  // namespace sortie::battery

@@ -1,0 +1,87 @@
+#include "battery/thevenin.hpp"
+
+#include <cmath>
+
+namespace sortie::battery {
+
+PackModel::PackModel(const Pack& p)
+    : series(p.series),
+      parallel(p.parallel),
+      capacity_C(3600.0 * p.capacity_Ah()),
+      v_max_cell_V(p.cell.v_max_V),
+      i_cont_max_cell_A(p.cell.i_cont_max_A),
+      ocv_cell_V(p.cell.ocv_V),
+      n_rc(p.cell.rc.size()) {
+  const double sp = static_cast<double>(p.series) / p.parallel;
+  const double rf = p.cell.r_factor(p.temperature_C);
+  // R0_pack = S/P·R0_cell·soh_resistance·r_factor(T) + R_wiring (DESIGN.md)
+  Table r0 = p.cell.r0_ohm.scaled(sp * p.soh_resistance * rf);
+  std::vector<double> y = r0.y();
+  for (double& v : y) v += p.wiring_ohm;
+  r0_pack_ohm = Table(r0.x(), y);
+  for (std::size_t k = 0; k < 2; ++k) {
+    if (k < n_rc) {
+      r_pack_ohm[k] = p.cell.rc[k].r_ohm.scaled(sp * rf);  // R_k,pack = S/P·R_k,cell
+      tau_s[k] = p.cell.rc[k].tau_s;                        // τ_k unchanged by S and P
+    } else {
+      r_pack_ohm[k] = Table(0.0);
+      tau_s[k] = Table(1.0);
+    }
+  }
+}
+
+Terminal solve_terminal(double emf_V, double r0_ohm, double ocv_V, const Demand& d, double t) {
+  Terminal out;
+  out.v_ocv_V = ocv_V;
+  const double ramp = d.a + d.a_rate * (t - d.t0);
+  if (d.kind == Demand::Kind::current) {
+    out.current_A = ramp;
+  } else {
+    const double B = emf_V + d.b * r0_ohm;  // coefficient of I (with sign flipped)
+    const double C = ramp + d.b * emf_V;    // constant term
+    if (r0_ohm <= 0.0) {
+      out.current_A = C / B;  // R0 = 0: V = E, I = (a + b·E)/E
+    } else {
+      const double disc = B * B - 4.0 * r0_ohm * C;
+      out.discriminant = disc;
+      if (disc >= 0.0) {
+        // Smaller root in a cancellation-free form: I = 2C / (B + √D)
+        out.current_A = 2.0 * C / (B + std::sqrt(disc));
+      } else {
+        out.collapsed = true;
+        out.current_A = B / (2.0 * r0_ohm);
+      }
+    }
+  }
+  out.v_terminal_V = emf_V - r0_ohm * out.current_A;
+  out.power_W = out.v_terminal_V * out.current_A;
+  return out;
+}
+
+Terminal Thevenin::terminal(const State& x, double t) const {
+  const double soc = x[kSoc];
+  const double ocv = pack.ocv_pack(soc);
+  // E = S·OCV − v1 − v2 (DESIGN.md)
+  const double emf = ocv - x[kV1] - x[kV2];
+  return solve_terminal(emf, pack.r0_pack_ohm(soc), ocv, demand, t);
+}
+
+void Thevenin::operator()(const State& x, State& dxdt, double t) const {
+  const Terminal term = terminal(x, t);
+  const double i = term.current_A;
+  const double soc = x[kSoc];
+  dxdt[kSoc] = -i / pack.capacity_C;  // dSoC/dt = −I / (3600·Q_Ah·P·soh)
+  for (std::size_t k = 0; k < 2; ++k) {
+    const std::size_t idx = kV1 + k;
+    if (k < pack.n_rc) {
+      const double tau = pack.tau_s[k](soc);
+      dxdt[idx] = (-x[idx] + i * pack.r_pack_ohm[k](soc)) / tau;  // dv/dt = −v/τ + I·R/τ
+    } else {
+      dxdt[idx] = 0.0;
+    }
+  }
+  dxdt[kCharge] = i;
+  dxdt[kEnergy] = term.power_W;
+}
+
+}  // namespace sortie::battery

@@ -1,0 +1,10 @@
+#pragma once
+/// One registration function per command; each lives in its own file (cli/<command>.cpp).
+/// A command's callback runs after parsing and returns the exit code through `exit_code`.
+#include <CLI/CLI.hpp>
+
+namespace sortie::cli {
+
+void add_discharge_command(CLI::App& app, int& exit_code);
+
+}  // namespace sortie::cli

@@ -1,0 +1,103 @@
+// `sortie discharge PACK.json (--power W | --current A | --load FILE.csv)`: a pack under a load.
+#include <iostream>
+#include <optional>
+
+#include "cli/commands.hpp"
+#include "core/error.hpp"
+#include "io/battery_json.hpp"
+#include "io/load_csv.hpp"
+#include "io/output.hpp"
+#include "report/discharge_report.hpp"
+#include "report/text_table.hpp"
+#include "sim/discharge.hpp"
+
+namespace sortie::cli {
+
+namespace {
+
+struct DischargeOptions {
+  std::string pack_file;
+  std::optional<double> power_W, current_A;
+  std::string load_file;
+  std::string interpolation;
+  std::optional<double> cutoff_cell_V, soc0, temperature_C;
+  double soc_floor = 0.0;
+  double sample_s = 1.0;
+  std::string json_file, trace_file;
+  bool quiet = false;
+};
+
+int run_discharge(const DischargeOptions& o) {
+  battery::Pack pack = io::load_pack_file(o.pack_file);
+  if (o.soc0) pack.soc0 = *o.soc0;
+  if (o.temperature_C) pack.temperature_C = *o.temperature_C;
+  sim::DischargeSpec spec;
+  spec.cutoff_cell_V = o.cutoff_cell_V.value_or(pack.cell.v_cutoff_V);
+  if (spec.cutoff_cell_V >= pack.cell.v_max_V)
+    throw UsageError("--cutoff-cell-V: at or above the cell's maximum voltage (got " +
+                     format_number(spec.cutoff_cell_V) + " V, expected below " +
+                     format_number(pack.cell.v_max_V) + " V)");
+  spec.soc_floor = o.soc_floor;
+  spec.sample_s = o.trace_file.empty() ? 0.0 : o.sample_s;
+  std::string label;
+  if (o.current_A) {
+    spec.load = sim::DischargeSpec::Load::current;
+    spec.value = *o.current_A;
+    label = "constant current " + report::fixed(*o.current_A, 2) + " A";
+  } else if (o.power_W) {
+    spec.load = sim::DischargeSpec::Load::power;
+    spec.value = *o.power_W;
+    label = "constant power " + report::fixed(*o.power_W, 1) + " W";
+  } else {
+    spec.load = sim::DischargeSpec::Load::series;
+    std::optional<bool> step;
+    if (!o.interpolation.empty()) step = o.interpolation == "step";
+    spec.series = io::load_load_csv(o.load_file, step);
+    label = std::string("load from ") + o.load_file + " (" + (spec.series.step ? "step" : "linear") + ")";
+  }
+  const sim::DischargeResult r = sim::discharge(pack, spec);
+
+  if (!o.json_file.empty())
+    io::write_output(o.json_file, report::discharge_json(pack, label, r).dump(2) + "\n");
+  if (!o.trace_file.empty()) io::write_output(o.trace_file, report::discharge_trace_csv(r));
+  if (!o.quiet && o.json_file != "-") std::cout << report::discharge_text(pack, label, r);
+  return 0;
+}
+
+}  // namespace
+
+void add_discharge_command(CLI::App& app, int& exit_code) {
+  auto o = std::make_shared<DischargeOptions>();
+  CLI::App* c = app.add_subcommand("discharge", "Run a pack under a load until it ends");
+  c->add_option("PACK", o->pack_file, "pack model (JSON)")->required()->check(CLI::ExistingFile);
+  auto* p = c->add_option("--power", o->power_W, "constant power at the terminals, W")
+                ->check(CLI::PositiveNumber);
+  auto* i = c->add_option("--current", o->current_A, "constant current, A")->check(CLI::PositiveNumber);
+  auto* l = c->add_option("--load", o->load_file, "load over time: CSV with time_s and current_A or power_W")
+                ->check(CLI::ExistingFile);
+  p->excludes(i)->excludes(l);
+  i->excludes(l);
+  c->add_option("--interpolation", o->interpolation, "how --load values join: step or linear")
+      ->check(CLI::IsMember({"step", "linear"}));
+  c->add_option("--cutoff-cell-V", o->cutoff_cell_V, "loaded cell voltage that ends the run, V (default: the cell's)")
+      ->check(CLI::Range(0.5, 10.0));
+  c->add_option("--soc0", o->soc0, "initial state of charge, 0..1 (default: the pack's)")->check(CLI::Range(0.0, 1.0));
+  c->add_option("--soc-floor", o->soc_floor, "state of charge that ends the run, 0..1 (default 0)")
+      ->check(CLI::Range(0.0, 1.0));
+  c->add_option("--temperature-C", o->temperature_C, "cell temperature, °C (default: the pack's)")
+      ->check(CLI::Range(-60.0, 100.0));
+  c->add_option("--json", o->json_file, "write the result as JSON to FILE, or - for standard output");
+  c->add_option("--trace", o->trace_file, "write a CSV trace to FILE");
+  c->add_option("--sample-s", o->sample_s, "trace spacing, s (default 1)")->check(CLI::Range(1e-3, 1e6));
+  c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
+  c->callback([o, c, &exit_code] {
+    if (!o->power_W && !o->current_A && o->load_file.empty())
+      throw CLI::RequiredError("one of --power, --current or --load");
+    if (o->soc0 && o->soc_floor >= *o->soc0)
+      throw UsageError("--soc-floor: at or above the initial state of charge");
+    (void)c;
+    exit_code = run_discharge(*o);
+  });
+}
+
+}  // namespace sortie::cli

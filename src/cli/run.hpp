@@ -1,0 +1,14 @@
+#pragma once
+/// The command line: parse, dispatch to one command, map failures to exit codes.
+
+namespace sortie::cli {
+
+/// Exit codes (DESIGN.md): 0 done (and `fly` go), 3 `fly` no-go, 1 bad input, 2 bad usage.
+inline constexpr int kExitOk = 0;
+inline constexpr int kExitBadInput = 1;
+inline constexpr int kExitUsage = 2;
+inline constexpr int kExitNoGo = 3;
+
+int run(int argc, char** argv);
+
+}  // namespace sortie::cli

@@ -1,0 +1,17 @@
+#pragma once
+/// Cell and pack models from JSON (DESIGN.md "File shapes"), validated once at load.
+#include <filesystem>
+
+#include "battery/pack.hpp"
+#include "io/json_reader.hpp"
+
+namespace sortie::io {
+
+battery::Cell read_cell(ObjectReader& r);
+/// A pack object; its "cell" is inline or a path relative to the pack's file.
+battery::Pack read_pack(ObjectReader& r);
+
+battery::Cell load_cell_file(const std::filesystem::path& path);
+battery::Pack load_pack_file(const std::filesystem::path& path);
+
+}  // namespace sortie::io

@@ -1,0 +1,149 @@
+#include "io/csv.hpp"
+
+#include <algorithm>
+#include <cctype>
+#include <charconv>
+#include <cmath>
+#include <fstream>
+#include <sstream>
+
+#include "core/error.hpp"
+#include "io/json_reader.hpp"
+
+namespace sortie::io {
+
+namespace {
+
+std::string trim(std::string s) {
+  auto not_space = [](unsigned char c) { return !std::isspace(c); };
+  s.erase(s.begin(), std::find_if(s.begin(), s.end(), not_space));
+  s.erase(std::find_if(s.rbegin(), s.rend(), not_space).base(), s.end());
+  return s;
+}
+
+std::string lower(std::string s) {
+  for (char& c : s) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+  return s;
+}
+
+const std::string kEmpty;
+
+}  // namespace
+
+std::vector<std::string> split_csv_line(const std::string& line) {
+  std::vector<std::string> out;
+  std::string cur;
+  bool quoted = false;
+  for (std::size_t i = 0; i < line.size(); ++i) {
+    const char c = line[i];
+    if (quoted) {
+      if (c == '"' && i + 1 < line.size() && line[i + 1] == '"') {
+        cur += '"';
+        ++i;
+      } else if (c == '"') {
+        quoted = false;
+      } else {
+        cur += c;
+      }
+    } else if (c == '"') {
+      quoted = true;
+    } else if (c == ',') {
+      out.push_back(trim(cur));
+      cur.clear();
+    } else {
+      cur += c;
+    }
+  }
+  out.push_back(trim(cur));
+  // Trailing empty fields (a trailing comma on every line is common in logger output).
+  while (out.size() > 1 && out.back().empty()) out.pop_back();
+  return out;
+}
+
+CsvFile parse_csv(const std::string& text, const std::string& name, bool has_header) {
+  CsvFile f;
+  f.file = name;
+  std::istringstream in(text);
+  std::string line;
+  std::size_t n = 0;
+  bool need_header = has_header;
+  while (std::getline(in, line)) {
+    ++n;
+    if (!line.empty() && line.back() == '\r') line.pop_back();
+    if (n == 1 && line.size() >= 3 && line.compare(0, 3, "\xEF\xBB\xBF") == 0) line.erase(0, 3);
+    const std::string t = trim(line);
+    if (t.empty()) continue;
+    if (t[0] == '#') {
+      f.comments.push_back(trim(t.substr(1)));
+      continue;
+    }
+    auto fields = split_csv_line(line);
+    if (need_header) {
+      f.header = std::move(fields);
+      f.header_line = n;
+      need_header = false;
+      continue;
+    }
+    f.rows.push_back(std::move(fields));
+    f.lines.push_back(n);
+  }
+  if (has_header && f.header.empty()) throw InputError(name + ": no header line (the file is empty)");
+  return f;
+}
+
+CsvFile read_csv(const std::filesystem::path& path, bool has_header) {
+  std::ifstream in(path, std::ios::binary);
+  if (!in) throw InputError(path.string() + ": cannot open the file");
+  std::ostringstream ss;
+  ss << in.rdbuf();
+  return parse_csv(ss.str(), path.string(), has_header);
+}
+
+std::optional<std::size_t> CsvFile::find_column(const std::vector<std::string>& names) const {
+  for (const auto& want : names)
+    for (std::size_t i = 0; i < header.size(); ++i)
+      if (lower(trim(header[i])) == lower(want)) return i;
+  return std::nullopt;
+}
+
+std::size_t CsvFile::require_column(const std::vector<std::string>& names,
+                                    const std::string& what) const {
+  if (auto c = find_column(names)) return *c;
+  std::string list;
+  for (const auto& n : names) list += (list.empty() ? "'" : ", '") + n + "'";
+  std::string have;
+  for (const auto& h : header) have += (have.empty() ? "" : ",") + h;
+  throw InputError(file + ": line " + std::to_string(header_line) + ": missing column for " + what +
+                   " (got header \"" + have + "\", expected a column named " + list + ")");
+}
+
+std::string CsvFile::column_name(std::size_t col) const {
+  if (col < header.size()) return "column '" + header[col] + "'";
+  return "column " + std::to_string(col + 1);
+}
+
+const std::string& CsvFile::text(std::size_t row, std::size_t col) const {
+  const auto& r = rows.at(row);
+  return col < r.size() ? r[col] : kEmpty;
+}
+
+void CsvFile::fail(std::size_t row, const std::string& what, const std::string& got,
+                   const std::string& expected) const {
+  throw InputError(message(Source{file, {}}, "line " + std::to_string(lines.at(row)), what, got,
+                           expected));
+}
+
+double CsvFile::number(std::size_t row, std::size_t col, const std::string& expected) const {
+  const std::string& s = text(row, col);
+  double v = 0.0;
+  const char* b = s.data();
+  const char* e = s.data() + s.size();
+  if (b != e && *b == '+') ++b;
+  auto res = std::from_chars(b, e, v);
+  if (s.empty()) fail(row, column_name(col) + " is empty", "\"\"", expected);
+  if (res.ec != std::errc() || res.ptr != e || !std::isfinite(v))
+    fail(row, column_name(col) + " is not a number", "\"" + s + "\"", expected);
+  return v;
+}
+
+}  // namespace sortie::io

@@ -1,0 +1,311 @@
+#include "io/json_reader.hpp"
+
+#include <cmath>
+#include <fstream>
+#include <sstream>
+
+#include "core/error.hpp"
+#include "core/suggest.hpp"
+
+namespace sortie::io {
+
+bool Range::contains(double v) const {
+  if (!std::isfinite(v)) return false;
+  if (lo_open ? !(v > lo) : !(v >= lo)) return false;
+  if (hi_open ? !(v < hi) : !(v <= hi)) return false;
+  return true;
+}
+
+std::string Range::describe() const {
+  const std::string u = unit.empty() ? "" : " " + unit;
+  const bool has_lo = lo > -1e299, has_hi = hi < 1e299;
+  if (has_lo && has_hi) {
+    std::string s = "a number ";
+    s += lo_open ? "above " + format_number(lo) : "from " + format_number(lo);
+    s += hi_open ? " to below " + format_number(hi) : " to " + format_number(hi);
+    return s + u;
+  }
+  if (has_lo) return std::string("a number ") + (lo_open ? "> " : ">= ") + format_number(lo) + u;
+  if (has_hi) return std::string("a number ") + (hi_open ? "< " : "<= ") + format_number(hi) + u;
+  return "a finite number" + u;
+}
+
+Range positive(std::string unit) { return Range{0.0, 1e300, true, false, std::move(unit)}; }
+Range non_negative(std::string unit) { return Range{0.0, 1e300, false, false, std::move(unit)}; }
+Range between(double lo, double hi, std::string unit) {
+  return Range{lo, hi, false, false, std::move(unit)};
+}
+Range above_to(double lo, double hi, std::string unit) {
+  return Range{lo, hi, true, false, std::move(unit)};
+}
+Range any_number(std::string unit) { return Range{-1e300, 1e300, false, false, std::move(unit)}; }
+
+std::string message(const Source& src, const std::string& pointer, const std::string& what,
+                    const std::string& got, const std::string& expected) {
+  std::string m = src.file + ": ";
+  if (!pointer.empty()) m += pointer + ": ";
+  m += what;
+  if (!got.empty() || !expected.empty()) {
+    m += " (";
+    if (!got.empty()) m += "got " + got;
+    if (!got.empty() && !expected.empty()) m += ", ";
+    if (!expected.empty()) m += "expected " + expected;
+    m += ")";
+  }
+  return m;
+}
+
+namespace {
+
+std::string describe_value(const nlohmann::json& v) {
+  std::string s = v.dump();
+  if (s.size() > 40) s = s.substr(0, 37) + "...";
+  return s;
+}
+
+void line_column(const std::string& text, std::size_t byte, std::size_t& line, std::size_t& col) {
+  line = 1;
+  col = 1;
+  for (std::size_t i = 0; i < text.size() && i + 1 < byte; ++i) {
+    if (text[i] == '\n') {
+      ++line;
+      col = 1;
+    } else {
+      ++col;
+    }
+  }
+}
+
+}  // namespace
+
+nlohmann::json load_json_file(const std::filesystem::path& path) {
+  std::ifstream in(path, std::ios::binary);
+  if (!in) throw InputError(path.string() + ": cannot open the file");
+  std::ostringstream ss;
+  ss << in.rdbuf();
+  const std::string text = ss.str();
+  try {
+    return nlohmann::json::parse(text);
+  } catch (const nlohmann::json::parse_error& e) {
+    std::size_t line = 0, col = 0;
+    line_column(text, e.byte, line, col);
+    std::string why = e.what();
+    // nlohmann's text is "[json.exception.parse_error.101] parse error at line L, column C: why"
+    if (auto p = why.find(": "); p != std::string::npos) why = why.substr(p + 2);
+    throw InputError(path.string() + ": line " + std::to_string(line) + ", column " +
+                     std::to_string(col) + ": JSON syntax error: " + why);
+  }
+}
+
+std::string escape_pointer_token(const std::string& key) {
+  std::string out;
+  for (char c : key) {
+    if (c == '~') out += "~0";
+    else if (c == '/') out += "~1";
+    else out += c;
+  }
+  return out;
+}
+
+ObjectReader::ObjectReader(const nlohmann::json& j, Source src, std::string pointer)
+    : j_(&j), src_(std::move(src)), pointer_(std::move(pointer)) {
+  if (!j.is_object())
+    throw InputError(message(src_, pointer_, "not an object", describe_value(j), "a JSON object {...}"));
+}
+
+std::string ObjectReader::pointer(const std::string& key) const {
+  return pointer_ + "/" + escape_pointer_token(key);
+}
+
+void ObjectReader::fail(const std::string& key, const std::string& what, const std::string& got,
+                        const std::string& expected) const {
+  throw InputError(message(src_, key.empty() ? pointer_ : pointer(key), what, got, expected));
+}
+
+bool ObjectReader::has(const std::string& key) {
+  if (std::find(known_.begin(), known_.end(), key) == known_.end()) known_.push_back(key);
+  return j_->contains(key) && !(*j_)[key].is_null();
+}
+
+const nlohmann::json& ObjectReader::require(const std::string& key) {
+  if (!has(key)) fail(key, "missing field '" + key + "'");
+  return (*j_)[key];
+}
+
+double ObjectReader::checked_number(const nlohmann::json& v, const std::string& ptr,
+                                    const Range& r) const {
+  if (!v.is_number())
+    throw InputError(message(src_, ptr, "not a number", describe_value(v), r.describe()));
+  const double d = v.get<double>();
+  if (!std::isfinite(d))
+    throw InputError(message(src_, ptr, "not a finite number", format_number(d), r.describe()));
+  if (!r.contains(d))
+    throw InputError(message(src_, ptr, "out of range", format_number(d), r.describe()));
+  return d;
+}
+
+double ObjectReader::number(const std::string& key, const Range& r) {
+  return checked_number(require(key), pointer(key), r);
+}
+
+std::optional<double> ObjectReader::optional_number(const std::string& key, const Range& r) {
+  if (!has(key)) return std::nullopt;
+  return checked_number((*j_)[key], pointer(key), r);
+}
+
+double ObjectReader::number_or(const std::string& key, double fallback, const Range& r) {
+  return optional_number(key, r).value_or(fallback);
+}
+
+int ObjectReader::integer(const std::string& key, int lo, int hi) {
+  const auto& v = require(key);
+  const std::string expected = "a whole number from " + std::to_string(lo) + " to " + std::to_string(hi);
+  if (!v.is_number()) fail(key, "not a number", describe_value(v), expected);
+  const double d = v.get<double>();
+  if (!std::isfinite(d) || d != std::floor(d) || d < lo || d > hi)
+    fail(key, "out of range", format_number(d), expected);
+  return static_cast<int>(d);
+}
+
+int ObjectReader::integer_or(const std::string& key, int fallback, int lo, int hi) {
+  if (!has(key)) return fallback;
+  return integer(key, lo, hi);
+}
+
+std::string ObjectReader::string(const std::string& key) {
+  const auto& v = require(key);
+  if (!v.is_string()) fail(key, "not a string", describe_value(v), "a string \"...\"");
+  return v.get<std::string>();
+}
+
+std::string ObjectReader::string_or(const std::string& key, const std::string& fallback) {
+  if (!has(key)) return fallback;
+  return string(key);
+}
+
+std::string ObjectReader::choice(const std::string& key, const std::vector<std::string>& choices,
+                                 const std::string& fallback) {
+  if (!has(key) && !fallback.empty()) return fallback;
+  const std::string s = string(key);
+  if (std::find(choices.begin(), choices.end(), s) != choices.end()) return s;
+  std::string list;
+  for (const auto& c : choices) list += (list.empty() ? "" : " | ") + c;
+  const std::string near = nearest(s, choices);
+  fail(key, near.empty() ? "unknown value" : "unknown value; did you mean '" + near + "'?",
+       "\"" + s + "\"", list);
+}
+
+bool ObjectReader::boolean_or(const std::string& key, bool fallback) {
+  if (!has(key)) return fallback;
+  const auto& v = (*j_)[key];
+  if (!v.is_boolean()) fail(key, "not true or false", describe_value(v), "true or false");
+  return v.get<bool>();
+}
+
+ObjectReader ObjectReader::child(const nlohmann::json& j, std::string ptr) const {
+  ObjectReader c(j, src_, std::move(ptr));
+  c.owned_ = owned_;  // the child points into the same document
+  return c;
+}
+
+ObjectReader ObjectReader::object(const std::string& key) {
+  return child(require(key), pointer(key));
+}
+
+std::vector<ObjectReader> ObjectReader::objects(const std::string& key, std::size_t min_size) {
+  const auto& v = require(key);
+  if (!v.is_array()) fail(key, "not a list", describe_value(v), "a list [...]");
+  if (v.size() < min_size)
+    fail(key, "too few entries", std::to_string(v.size()), "at least " + std::to_string(min_size));
+  std::vector<ObjectReader> out;
+  out.reserve(v.size());
+  for (std::size_t i = 0; i < v.size(); ++i)
+    out.push_back(child(v[i], pointer(key) + "/" + std::to_string(i)));
+  return out;
+}
+
+std::vector<double> ObjectReader::numbers(const std::string& key, const Range& r) {
+  const auto& v = require(key);
+  if (!v.is_array()) fail(key, "not a list", describe_value(v), "a list of numbers");
+  std::vector<double> out;
+  out.reserve(v.size());
+  for (std::size_t i = 0; i < v.size(); ++i)
+    out.push_back(checked_number(v[i], pointer(key) + "/" + std::to_string(i), r));
+  return out;
+}
+
+void ObjectReader::require_increasing(const std::string& key, const std::vector<double>& v,
+                                      const std::string& what) const {
+  for (std::size_t i = 1; i < v.size(); ++i)
+    if (!(v[i] > v[i - 1]))
+      throw InputError(message(src_, pointer(key) + "/" + std::to_string(i), what,
+                               format_number(v[i]), "a value above " + format_number(v[i - 1])));
+}
+
+void ObjectReader::require_length(const std::string& key, const std::vector<double>& v,
+                                  std::size_t n, const std::string& other_key) const {
+  if (v.size() != n)
+    fail(key, "table columns of unequal length", std::to_string(v.size()) + " values",
+         std::to_string(n) + " like '" + other_key + "'");
+}
+
+Table ObjectReader::table(const std::string& key, const std::string& x_key,
+                          const std::string& y_key, const Range& rx, const Range& ry,
+                          std::size_t min_points) {
+  ObjectReader t = object(key);
+  std::vector<double> x = t.numbers(x_key, rx);
+  std::vector<double> y = t.numbers(y_key, ry);
+  t.finish();
+  t.require_length(y_key, y, x.size(), x_key);
+  if (x.size() < min_points)
+    t.fail(x_key, "too few table points", std::to_string(x.size()),
+           "at least " + std::to_string(min_points));
+  t.require_increasing(x_key, x, "'" + x_key + "' not strictly increasing");
+  return Table(std::move(x), std::move(y));
+}
+
+Table ObjectReader::number_or_table(const std::string& key, const std::string& x_key,
+                                    const std::string& y_key, const Range& rx, const Range& ry) {
+  const auto& v = require(key);
+  if (v.is_number()) return Table(checked_number(v, pointer(key), ry));
+  if (v.is_object()) return table(key, x_key, y_key, rx, ry, 2);
+  fail(key, "neither a number nor a table", describe_value(v),
+       "a number or {\"" + x_key + "\": [...], \"" + y_key + "\": [...]}");
+}
+
+ObjectReader ObjectReader::model(const std::string& key) {
+  const auto& v = require(key);
+  if (v.is_string()) {
+    std::filesystem::path p = v.get<std::string>();
+    if (p.is_relative()) p = src_.dir / p;
+    if (!std::filesystem::is_regular_file(p))
+      fail(key, "model file not found", "\"" + v.get<std::string>() + "\"",
+           "a path relative to " + (src_.dir.empty() ? std::string(".") : src_.dir.string()));
+    return open_model_file(p);
+  }
+  if (v.is_object()) return child(v, pointer(key));
+  fail(key, "neither a model object nor a file path", describe_value(v),
+       "{...} or \"path/to/model.json\"");
+}
+
+void ObjectReader::finish() {
+  for (auto it = j_->begin(); it != j_->end(); ++it) {
+    if (it.key() == "note") continue;  // free text allowed in every object
+    if (std::find(known_.begin(), known_.end(), it.key()) != known_.end()) continue;
+    const std::string near = nearest(it.key(), known_);
+    std::string list;
+    for (const auto& k : known_) list += (list.empty() ? "" : ", ") + k;
+    fail(it.key(), near.empty() ? "unknown field '" + it.key() + "'"
+                                : "unknown field '" + it.key() + "'; did you mean '" + near + "'?",
+         {}, "one of " + list);
+  }
+}
+
+ObjectReader open_model_file(const std::filesystem::path& path) {
+  auto owned = std::make_shared<const nlohmann::json>(load_json_file(path));
+  ObjectReader r(*owned, Source{path.string(), path.parent_path()}, "");
+  r.owned_ = owned;
+  return r;
+}
+
+}  // namespace sortie::io

@@ -1,0 +1,115 @@
+#pragma once
+/// Reading model files: JSON objects with their keys checked once, at load (STYLE.md rule 6).
+/// Every error names the file, the JSON pointer, the value and what was expected.
+#include <filesystem>
+#include <memory>
+#include <nlohmann/json.hpp>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "core/table.hpp"
+
+namespace sortie::io {
+
+/// An allowed interval for a number, with the unit shown in messages.
+struct Range {
+  double lo = -1e300;
+  double hi = 1e300;
+  bool lo_open = false;  ///< true: lo itself is refused
+  bool hi_open = false;
+  std::string unit;
+
+  bool contains(double v) const;
+  /// "> 0 A", "0 to 1", "from 2.5 to 4.5 V" ...
+  std::string describe() const;
+};
+
+Range positive(std::string unit);                                  ///< (0, inf)
+Range non_negative(std::string unit);                              ///< [0, inf)
+Range between(double lo, double hi, std::string unit);             ///< [lo, hi]
+Range above_to(double lo, double hi, std::string unit);            ///< (lo, hi]
+Range any_number(std::string unit);
+
+/// Where a JSON value came from: the file and the folder relative paths are resolved from.
+struct Source {
+  std::string file;                ///< as shown in messages
+  std::filesystem::path dir;       ///< folder of the file, for relative model paths
+};
+
+/// Parse a JSON file; a syntax error names the line and column.
+nlohmann::json load_json_file(const std::filesystem::path& path);
+
+/// `FILE: /pointer: what (got X, expected Y)`; parts left empty are left out.
+std::string message(const Source& src, const std::string& pointer, const std::string& what,
+                    const std::string& got = {}, const std::string& expected = {});
+
+/// Reads one JSON object. Every key asked for, present or not, becomes a known key; finish()
+/// refuses the rest, suggesting the nearest known key.
+class ObjectReader {
+ public:
+  ObjectReader(const nlohmann::json& j, Source src, std::string pointer);
+
+  bool has(const std::string& key);
+  double number(const std::string& key, const Range& r);
+  std::optional<double> optional_number(const std::string& key, const Range& r);
+  double number_or(const std::string& key, double fallback, const Range& r);
+  int integer(const std::string& key, int lo, int hi);
+  int integer_or(const std::string& key, int fallback, int lo, int hi);
+  std::string string(const std::string& key);
+  std::string string_or(const std::string& key, const std::string& fallback);
+  /// One of `choices`.
+  std::string choice(const std::string& key, const std::vector<std::string>& choices,
+                     const std::string& fallback);
+  bool boolean_or(const std::string& key, bool fallback);
+  /// A child object.
+  ObjectReader object(const std::string& key);
+  /// A list of objects (at least `min_size`).
+  std::vector<ObjectReader> objects(const std::string& key, std::size_t min_size);
+  /// A list of numbers, each in range.
+  std::vector<double> numbers(const std::string& key, const Range& r);
+  /// Refuse a list that is not strictly increasing, naming the first offending entry.
+  void require_increasing(const std::string& key, const std::vector<double>& v,
+                          const std::string& what) const;
+  /// Refuse a list whose length differs from `n` (the length of `other_key`).
+  void require_length(const std::string& key, const std::vector<double>& v, std::size_t n,
+                      const std::string& other_key) const;
+  /// A table `{ "<x_key>": [...], "<y_key>": [...] }`, x strictly increasing, equal lengths.
+  Table table(const std::string& key, const std::string& x_key, const std::string& y_key,
+              const Range& rx, const Range& ry, std::size_t min_points);
+  /// A plain number (a constant) or such a table.
+  Table number_or_table(const std::string& key, const std::string& x_key,
+                        const std::string& y_key, const Range& rx, const Range& ry);
+  /// A model given inline or as a path relative to this file's folder.
+  ObjectReader model(const std::string& key);
+
+  /// Refuse keys never asked for (a free-text "note" is allowed in every object).
+  void finish();
+
+  [[noreturn]] void fail(const std::string& key, const std::string& what,
+                         const std::string& got = {}, const std::string& expected = {}) const;
+  std::string pointer(const std::string& key) const;
+  const std::string& pointer() const { return pointer_; }
+  const Source& source() const { return src_; }
+  const nlohmann::json& json() const { return *j_; }
+
+ private:
+  friend ObjectReader open_model_file(const std::filesystem::path& path);
+  ObjectReader child(const nlohmann::json& j, std::string pointer) const;
+  const nlohmann::json& require(const std::string& key);
+  double checked_number(const nlohmann::json& v, const std::string& ptr, const Range& r) const;
+
+  const nlohmann::json* j_;
+  std::shared_ptr<const nlohmann::json> owned_;  // set when this object was loaded from a file
+  Source src_;
+  std::string pointer_;
+  std::vector<std::string> known_;
+};
+
+/// Open a model file as a reader on its root object.
+ObjectReader open_model_file(const std::filesystem::path& path);
+
+/// JSON-pointer escaping of one key (RFC 6901: ~ → ~0, / → ~1).
+std::string escape_pointer_token(const std::string& key);
+
+}  // namespace sortie::io

@@ -1,0 +1,65 @@
+#include "report/text_table.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+
+namespace sortie::report {
+
+std::string fixed(double v, int digits) {
+  if (std::isnan(v)) return "-";
+  if (std::isinf(v)) return v > 0 ? "inf" : "-inf";
+  char buf[64];
+  std::snprintf(buf, sizeof buf, "%.*f", digits, v);
+  std::string s = buf;
+  if (s.find_first_not_of("-0.") == std::string::npos && s[0] == '-') s.erase(0, 1);  // no "-0.0"
+  return s;
+}
+
+std::size_t display_width(const std::string& s) {
+  std::size_t n = 0;
+  for (unsigned char c : s)
+    if ((c & 0xC0) != 0x80) ++n;
+  return n;
+}
+
+namespace {
+std::string pad(const std::string& s, std::size_t w, bool left) {
+  const std::size_t d = display_width(s);
+  const std::string fill(w > d ? w - d : 0, ' ');
+  return left ? s + fill : fill + s;
+}
+}  // namespace
+
+std::string TextTable::render(const std::string& indent) const {
+  std::vector<std::size_t> w(header_.size(), 0);
+  for (std::size_t c = 0; c < header_.size(); ++c) w[c] = display_width(header_[c]);
+  for (const auto& r : rows_)
+    for (std::size_t c = 0; c < r.size() && c < w.size(); ++c) w[c] = std::max(w[c], display_width(r[c]));
+  auto line = [&](const std::vector<std::string>& cells) {
+    std::string out = indent;
+    for (std::size_t c = 0; c < w.size(); ++c) {
+      const std::string cell = c < cells.size() ? cells[c] : "";
+      out += pad(cell, w[c], c == 0);
+      if (c + 1 < w.size()) out += "  ";
+    }
+    while (!out.empty() && out.back() == ' ') out.pop_back();
+    return out + "\n";
+  };
+  std::string out = line(header_);
+  std::size_t total = 0;
+  for (auto x : w) total += x;
+  out += indent + std::string(total + 2 * (w.size() - 1), '-') + "\n";
+  for (const auto& r : rows_) out += line(r);
+  return out;
+}
+
+std::string KeyValues::render(const std::string& indent) const {
+  std::size_t w = 0;
+  for (const auto& [k, v] : items_) w = std::max(w, display_width(k));
+  std::string out;
+  for (const auto& [k, v] : items_) out += indent + pad(k, w, true) + "  " + v + "\n";
+  return out;
+}
+
+}  // namespace sortie::report

@@ -1,0 +1,143 @@
+#include "sim/discharge.hpp"
+
+#include <algorithm>
+#include <cassert>
+#include <cmath>
+#include <limits>
+
+#include "core/error.hpp"
+
+namespace sortie::sim {
+
+using battery::Demand;
+
+const char* to_string(EndReason r) {
+  switch (r) {
+    case EndReason::cutoff_voltage: return "cutoff_voltage";
+    case EndReason::soc_floor: return "soc_floor";
+    case EndReason::power_collapse: return "power_collapse";
+    case EndReason::load_end: return "load_end";
+  }
+  return "?";
+}
+
+namespace {
+
+std::string fixed(double v, int digits) {
+  char buf[64];
+  std::snprintf(buf, sizeof buf, "%.*f", digits, v);
+  return buf;
+}
+
+/// The demand of one stretch [t_i, t_{i+1}] of a load series.
+Demand series_demand(const LoadSeries& s, std::size_t i) {
+  Demand d;
+  d.kind = s.quantity == LoadSeries::Quantity::current ? Demand::Kind::current : Demand::Kind::power;
+  d.t0 = s.time_s[i];
+  d.a = s.value[i];
+  if (!s.step && i + 1 < s.time_s.size())
+    d.a_rate = (s.value[i + 1] - s.value[i]) / (s.time_s[i + 1] - s.time_s[i]);
+  return d;
+}
+
+}  // namespace
+
+DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec) {
+  const battery::PackModel model(pack);
+  const double S = pack.series;
+  const double i_limit = pack.cell.i_cont_max_A * pack.parallel;
+  enum : std::size_t { kCutoff, kFloor, kCollapse, kOverCurrent };
+  const std::vector<EventSpec> events = {
+      {"cutoff_voltage", [&](const Sample& s) { return s.term.v_terminal_V / S - spec.cutoff_cell_V; }, true},
+      {"soc_floor", [&](const Sample& s) { return s.x[battery::kSoc] - spec.soc_floor; }, true},
+      {"power_collapse", [](const Sample& s) { return s.term.discriminant; }, true},
+      {"over_current", [=](const Sample& s) { return i_limit - s.term.current_A; }, false},
+  };
+
+  // Segments: one for a constant load, one per stretch of a series.
+  std::vector<std::pair<Demand, double>> segments;  // demand, end time
+  if (spec.load == DischargeSpec::Load::current) {
+    segments.push_back({Demand::current(spec.value), std::numeric_limits<double>::infinity()});
+  } else if (spec.load == DischargeSpec::Load::power) {
+    segments.push_back({Demand::power(spec.value), std::numeric_limits<double>::infinity()});
+  } else {
+    const auto& s = spec.series;
+    assert(s.time_s.size() >= 2);
+    for (std::size_t i = 0; i + 1 < s.time_s.size(); ++i)
+      segments.push_back({series_demand(s, i), s.time_s[i + 1]});
+  }
+
+  DischargeResult out;
+  out.v_min_V = std::numeric_limits<double>::infinity();
+  double t = spec.load == DischargeSpec::Load::series ? spec.series.time_s.front() : 0.0;
+  const double t_start = t;
+  battery::State x = model.initial_state(pack.soc0);
+  SegmentOptions opts;
+  opts.sample_s = spec.sample_s;
+  opts.next_sample_t = t;
+  opts.max_steps = spec.max_steps;
+  std::size_t steps_left = spec.max_steps;
+  auto track = [&](const Sample& s) {
+    out.v_min_V = std::min(out.v_min_V, s.term.v_terminal_V);
+    out.i_max_A = std::max(out.i_max_A, s.term.current_A);
+  };
+  const StepHook hook = [&](double ta, double tb, const std::function<Sample(double)>& at) {
+    track(at(ta));
+    track(at(0.5 * (ta + tb)));
+    track(at(tb));
+  };
+
+  Sample end;
+  std::optional<std::size_t> stopped;
+  for (const auto& [demand, t_end] : segments) {
+    opts.t_end = t_end;
+    opts.max_steps = steps_left;
+    SegmentResult seg = run_segment(model, demand, t, x, events, opts, hook);
+    steps_left -= std::min(steps_left, seg.steps);
+    opts.next_sample_t = seg.next_sample_t;
+    out.trace.insert(out.trace.end(), seg.samples.begin(), seg.samples.end());
+    for (const auto& w : seg.warnings) {
+      const double per_cell = w.at.term.current_A / pack.parallel;
+      out.events.push_back({w.at.t - t_start, "over_current",
+                            "cell current " + fixed(per_cell, 1) + " A above the continuous limit " +
+                                fixed(pack.cell.i_cont_max_A, 1) + " A"});
+    }
+    end = seg.end;
+    track(end);
+    t = end.t;
+    x = end.x;
+    if (seg.stopped) {
+      stopped = seg.stopped;
+      break;
+    }
+  }
+  if (out.trace.empty() || out.trace.back().t < end.t) {
+    if (spec.sample_s > 0) out.trace.push_back(end);
+  }
+  for (auto& s : out.trace) s.t -= t_start;
+
+  out.time_to_end_s = end.t - t_start;
+  out.charge_Ah = end.x[battery::kCharge] / 3600.0;
+  out.energy_Wh = end.x[battery::kEnergy] / 3600.0;
+  out.soc_end = end.x[battery::kSoc];
+  if (!std::isfinite(out.v_min_V)) out.v_min_V = end.term.v_terminal_V;
+  std::string detail;
+  if (!stopped) {
+    out.end_reason = EndReason::load_end;
+    detail = "the load ended";
+  } else if (*stopped == kCutoff) {
+    out.end_reason = EndReason::cutoff_voltage;
+    detail = "loaded cell voltage reached " + fixed(spec.cutoff_cell_V, 3) + " V";
+  } else if (*stopped == kFloor) {
+    out.end_reason = EndReason::soc_floor;
+    detail = "state of charge reached " + fixed(spec.soc_floor * 100, 1) + " %";
+  } else {
+    out.end_reason = EndReason::power_collapse;
+    detail = "the pack cannot deliver the power asked for: maximum " +
+             fixed(end.term.v_terminal_V * end.term.current_A, 1) + " W";
+  }
+  out.events.push_back({out.time_to_end_s, to_string(out.end_reason), detail});
+  return out;
+}
+
+}  // namespace sortie::sim

@@ -1,0 +1,55 @@
+#pragma once
+/// A pack under a load until it ends: cutoff, SoC floor, power collapse or end of the load.
+#include <string>
+#include <vector>
+
+#include "battery/pack.hpp"
+#include "sim/segment.hpp"
+
+namespace sortie::sim {
+
+/// A load over time from a file: current or power at given times, held (step) or linear.
+struct LoadSeries {
+  enum class Quantity { current, power };
+  Quantity quantity = Quantity::current;
+  bool step = false;              ///< true: each value holds until the next time
+  std::vector<double> time_s;     ///< strictly increasing
+  std::vector<double> value;      ///< A or W
+};
+
+struct DischargeSpec {
+  enum class Load { current, power, series };
+  Load load = Load::current;
+  double value = 0.0;        ///< A or W for constant loads
+  LoadSeries series;
+  double cutoff_cell_V = 0;  ///< loaded cell voltage that ends the discharge, V
+  double soc_floor = 0.0;    ///< SoC that ends the discharge
+  double sample_s = 1.0;     ///< trace spacing, s (0: no trace)
+  std::size_t max_steps = 200000;
+};
+
+enum class EndReason { cutoff_voltage, soc_floor, power_collapse, load_end };
+const char* to_string(EndReason r);
+
+/// Something that happened, at a time: an end, a warning, a phase boundary.
+struct Event {
+  double t_s = 0.0;
+  std::string kind;
+  std::string detail;
+};
+
+struct DischargeResult {
+  double time_to_end_s = 0.0;
+  EndReason end_reason = EndReason::load_end;
+  double charge_Ah = 0.0;
+  double energy_Wh = 0.0;
+  double v_min_V = 0.0;      ///< lowest loaded pack voltage
+  double soc_end = 0.0;
+  double i_max_A = 0.0;
+  std::vector<Event> events;
+  std::vector<Sample> trace;  ///< every sample_s, plus the exact end point
+};
+
+DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec);
+
+}  // namespace sortie::sim

@@ -1,0 +1,129 @@
+#include "sim/segment.hpp"
+
+#include <algorithm>
+#include <boost/numeric/odeint.hpp>
+#include <cmath>
+
+#include "core/error.hpp"
+#include "core/roots.hpp"
+
+namespace sortie::sim {
+
+namespace odeint = boost::numeric::odeint;
+using battery::State;
+
+namespace {
+
+Sample make_sample(const battery::Thevenin& rhs, double t, const State& x) {
+  return Sample{t, x, rhs.terminal(x, t)};
+}
+
+}  // namespace
+
+SegmentResult run_segment(const battery::PackModel& pack, const battery::Demand& demand, double t0,
+                          const State& x0, const std::vector<EventSpec>& events,
+                          const SegmentOptions& opts, const StepHook& hook) {
+  const battery::Thevenin rhs{pack, demand};
+  SegmentResult res;
+  struct SaveNext {  // hand the trace position on however the segment ends
+    SegmentResult& r;
+    double& next;
+    ~SaveNext() { r.next_sample_t = next; }
+  };
+  Sample cur = make_sample(rhs, t0, x0);
+
+  double next_sample = opts.sample_s > 0 ? std::max(opts.next_sample_t, t0) : 0.0;
+  SaveNext save_next{res, next_sample};
+  auto emit_samples_until = [&](double t_hi, const std::function<Sample(double)>& at,
+                                bool inclusive) {
+    if (opts.sample_s <= 0) return;
+    while (inclusive ? next_sample <= t_hi : next_sample < t_hi) {
+      res.samples.push_back(at(next_sample));
+      next_sample += opts.sample_s;
+    }
+  };
+
+  // Events already at or below zero at the start: terminal ones end the segment at once.
+  std::vector<double> g_prev(events.size());
+  std::optional<std::size_t> stopped_at_start;
+  for (std::size_t k = 0; k < events.size(); ++k) {
+    g_prev[k] = events[k].g(cur);
+    if (g_prev[k] > 0.0) continue;
+    if (!events[k].terminal) res.warnings.push_back({k, cur});
+    else if (!stopped_at_start) stopped_at_start = k;
+  }
+  if (stopped_at_start) {
+    emit_samples_until(t0, [&](double) { return cur; }, true);
+    res.end = cur;
+    res.stopped = stopped_at_start;
+    return res;
+  }
+  if (!(opts.t_end > t0)) {
+    emit_samples_until(t0, [&](double) { return cur; }, true);
+    res.end = cur;
+    return res;
+  }
+
+  auto base = odeint::runge_kutta_dopri5<State>();
+  auto stepper = opts.max_dt_s > 0
+                     ? odeint::make_dense_output(opts.abs_tol, opts.rel_tol, opts.max_dt_s, base)
+                     : odeint::make_dense_output(opts.abs_tol, opts.rel_tol, base);
+  const double span = std::isfinite(opts.t_end) ? opts.t_end - t0 : 1e4;
+  stepper.initialize(x0, t0, std::min(1.0, span / 16.0));
+
+  State tmp{};
+  while (true) {
+    if (res.steps >= opts.max_steps)
+      throw LimitError("integration stopped after " + std::to_string(opts.max_steps) +
+                       " steps at t = " + format_number(stepper.current_time()) +
+                       " s without reaching the end of the segment");
+    auto [ta, tb] = stepper.do_step(rhs);
+    ++res.steps;
+    auto at = [&](double t) {
+      stepper.calc_state(t, tmp);
+      return make_sample(rhs, t, tmp);
+    };
+    const bool reaches_end = tb >= opts.t_end;
+    const double t_hi = reaches_end ? opts.t_end : tb;
+    const Sample hi = reaches_end ? at(t_hi) : make_sample(rhs, tb, stepper.current_state());
+
+    // Locate every crossing inside (ta, t_hi]; the earliest terminal one ends the segment.
+    std::optional<Crossing> first_terminal;
+    std::vector<Crossing> step_warnings;
+    std::vector<double> g_hi(events.size());
+    for (std::size_t k = 0; k < events.size(); ++k) {
+      g_hi[k] = events[k].g(hi);
+      if (!(g_prev[k] > 0.0 && g_hi[k] <= 0.0)) continue;
+      auto gk = [&](double t) { return events[k].g(at(t)); };
+      const double tc =
+          find_root(gk, ta, t_hi, g_prev[k], g_hi[k], opts.time_tol_s).value_or(t_hi);
+      // Take the upper end of the final bracket side so the reported state has crossed.
+      Crossing c{k, at(std::min(t_hi, tc))};
+      if (events[k].terminal) {
+        if (!first_terminal || c.at.t < first_terminal->at.t) first_terminal = c;
+      } else {
+        step_warnings.push_back(c);
+      }
+    }
+    const double t_stop = first_terminal ? first_terminal->at.t : t_hi;
+    if (hook) hook(ta, t_stop, at);
+    emit_samples_until(t_stop, at, !first_terminal && !reaches_end);
+    std::sort(step_warnings.begin(), step_warnings.end(),
+              [](const Crossing& a, const Crossing& b) { return a.at.t < b.at.t; });
+    for (auto& w : step_warnings)
+      if (w.at.t <= t_stop) res.warnings.push_back(w);
+    if (first_terminal) {
+      res.end = first_terminal->at;
+      res.stopped = first_terminal->event;
+      return res;
+    }
+    if (reaches_end) {
+      res.end = hi;
+      return res;
+    }
+    g_prev = g_hi;
+    cur = hi;
+  }
+}
+
+}  // namespace sortie::sim
