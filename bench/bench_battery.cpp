@@ -1,0 +1,37 @@
+// Battery benchmarks: full discharges to cutoff.
+#include "battery/pack.hpp"
+#include "bench.hpp"
+#include "io/battery_json.hpp"
+#include "sim/discharge.hpp"
+
+namespace {
+
+using namespace sortie;
+
+battery::Pack demo_pack() {
+  return io::load_pack_file(SORTIE_SOURCE_DIR "/models/packs/demo-4s1p-lipo-5000.json");
+}
+
+// A 4S pack of a two-RC cell at 1C to its cutoff, no trace: the integrator's cost for a whole
+// discharge (about an hour of simulated time).
+const bool reg_1c = bench::add_case("discharge_1C_4S2RC", [] {
+  static const battery::Pack pack = demo_pack();
+  sim::DischargeSpec spec;
+  spec.load = sim::DischargeSpec::Load::current;
+  spec.value = pack.cell.capacity_Ah * pack.parallel;  // 1C
+  spec.cutoff_cell_V = pack.cell.v_cutoff_V;
+  spec.sample_s = 0.0;
+  bench::keep(sim::discharge(pack, spec).time_to_end_s);
+});
+
+const bool reg_power = bench::add_case("discharge_300W_4S2RC", [] {
+  static const battery::Pack pack = demo_pack();
+  sim::DischargeSpec spec;
+  spec.load = sim::DischargeSpec::Load::power;
+  spec.value = 300.0;
+  spec.cutoff_cell_V = pack.cell.v_cutoff_V;
+  spec.sample_s = 0.0;
+  bench::keep(sim::discharge(pack, spec).time_to_end_s);
+});
+
+}  // namespace

@@ -1,0 +1,23 @@
+#!/usr/bin/env bash
+# Install the Debian packages sortie needs, only those missing. Works as root, or through sudo.
+# Usage: scripts/install-deps.sh [--test]   (--test adds what the test suite needs)
+set -euo pipefail
+pkgs=(g++ cmake make libboost-dev libeigen3-dev libcli11-dev nlohmann-json3-dev)
+if [[ "${1:-}" == "--test" ]]; then
+  pkgs+=(doctest-dev)
+fi
+missing=()
+for p in "${pkgs[@]}"; do
+  dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing+=("$p")
+done
+if ((${#missing[@]} == 0)); then
+  exit 0
+fi
+echo "sortie: installing ${missing[*]}" >&2
+as_root=()
+if [[ $(id -u) -ne 0 ]]; then
+  as_root=(sudo)
+fi
+export DEBIAN_FRONTEND=noninteractive
+"${as_root[@]}" apt-get update -qq
+"${as_root[@]}" apt-get install -y -qq --no-install-recommends "${missing[@]}" >/dev/null

@@ -1,0 +1,66 @@
+// Support code for end-to-end tests (compiled into the test binary; it holds no test cases).
+#include "support/cli.hpp"
+
+#include <sys/wait.h>
+
+#include <cstdio>
+#include <filesystem>
+#include <fstream>
+#include <sstream>
+
+namespace sortie::test {
+
+namespace {
+std::string quote(const std::string& s) {
+  std::string q = "'";
+  for (char c : s) {
+    if (c == '\'') q += "'\\''";
+    else q += c;
+  }
+  return q + "'";
+}
+}  // namespace
+
+std::string source_path(const std::string& relative) {
+  return std::string(SORTIE_SOURCE_DIR) + "/" + relative;
+}
+
+std::string work_path(const std::string& name) {
+  std::filesystem::create_directories(SORTIE_TEST_WORK_DIR);
+  const std::string p = std::string(SORTIE_TEST_WORK_DIR) + "/" + name;
+  std::filesystem::remove(p);
+  return p;
+}
+
+std::string write_work_file(const std::string& name, const std::string& content) {
+  const std::string p = work_path(name);
+  std::ofstream(p, std::ios::binary) << content;
+  return p;
+}
+
+bool file_exists(const std::string& path) { return std::filesystem::exists(path); }
+
+std::string read_file(const std::string& path) {
+  std::ifstream in(path, std::ios::binary);
+  std::ostringstream ss;
+  ss << in.rdbuf();
+  return ss.str();
+}
+
+CliResult run_sortie(const std::vector<std::string>& args) {
+  static int counter = 0;
+  const std::string base = work_path("cli-" + std::to_string(++counter));
+  std::string cmd = quote(SORTIE_BIN);
+  for (const auto& a : args) cmd += " " + quote(a);
+  cmd += " >" + quote(base + ".out") + " 2>" + quote(base + ".err") + " </dev/null";
+  const int status = std::system(cmd.c_str());
+  CliResult r;
+  r.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
+  r.out = read_file(base + ".out");
+  r.err = read_file(base + ".err");
+  std::filesystem::remove(base + ".out");
+  std::filesystem::remove(base + ".err");
+  return r;
+}
+
+}  // namespace sortie::test
