@@ -86,6 +86,11 @@ nlohmann::json load_json_file(const std::filesystem::path& path) {
   const std::string text = ss.str();
   try {
     return nlohmann::json::parse(text);
+  } catch (const nlohmann::json::out_of_range& e) {
+    // A literal too large for a double (1e999): nlohmann gives no position for it.
+    std::string why = e.what();
+    if (auto p = why.find("] "); p != std::string::npos) why = why.substr(p + 2);
+    throw InputError(path.string() + ": " + why + " (expected a finite number)");
   } catch (const nlohmann::json::parse_error& e) {
     std::size_t line = 0, col = 0;
     line_column(text, e.byte, line, col);
@@ -128,7 +133,15 @@ bool ObjectReader::has(const std::string& key) {
 }
 
 const nlohmann::json& ObjectReader::require(const std::string& key) {
-  if (!has(key)) fail(key, "missing field '" + key + "'");
+  if (!has(key)) {
+    // A misspelt key is the likelier story than a forgotten one: name it.
+    for (auto it = j_->begin(); it != j_->end(); ++it) {
+      if (std::find(known_.begin(), known_.end(), it.key()) != known_.end()) continue;
+      if (nearest(it.key(), {key}) == key)
+        fail(it.key(), "unknown field '" + it.key() + "'; did you mean '" + key + "'?");
+    }
+    fail(key, "missing field '" + key + "'");
+  }
   return (*j_)[key];
 }
 

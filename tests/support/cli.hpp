@@ -17,6 +17,9 @@ CliResult run_sortie(const std::vector<std::string>& args);
 /// Absolute path of a file in the source tree (e.g. "models/packs/demo-4s1p-lipo-5000.json").
 std::string source_path(const std::string& relative);
 
+/// This test process's own work directory (created on first use).
+std::string work_dir();
+
 /// A fresh path in the test work directory; the file is removed if it exists.
 std::string work_path(const std::string& name);
 

@@ -2,6 +2,7 @@
 #include "support/cli.hpp"
 
 #include <sys/wait.h>
+#include <unistd.h>
 
 #include <cstdio>
 #include <filesystem>
@@ -25,9 +26,15 @@ std::string source_path(const std::string& relative) {
   return std::string(SORTIE_SOURCE_DIR) + "/" + relative;
 }
 
+std::string work_dir() {
+  // One folder per test process: ctest runs test cases in parallel processes.
+  static const std::string dir = std::string(SORTIE_TEST_WORK_DIR) + "/p" + std::to_string(::getpid());
+  std::filesystem::create_directories(dir);
+  return dir;
+}
+
 std::string work_path(const std::string& name) {
-  std::filesystem::create_directories(SORTIE_TEST_WORK_DIR);
-  const std::string p = std::string(SORTIE_TEST_WORK_DIR) + "/" + name;
+  const std::string p = work_dir() + "/" + name;
   std::filesystem::remove(p);
   return p;
 }
