@@ -1,0 +1,41 @@
+#pragma once
+/// Airframes as plain data (SI): what the aircraft weighs and how it makes drag and lift.
+/// The rotor count and disk area come from the drive, not from here.
+#include <string>
+#include <variant>
+
+namespace sortie::flight {
+
+/// A multirotor frame. Mass excludes the pack and the payload; it includes the drive.
+struct Multirotor {
+  std::string name;
+  double mass_empty_kg = 1.0;   ///< airframe with its drive, without pack and payload, kg
+  double payload_kg = 0.0;      ///< kg
+  double cda_m2 = 0.05;         ///< drag area Cd·A for horizontal flight, m²
+  /// Drag area for vertical climb and descent, m². Defaults to cda_m2 when not given; the
+  /// frame's top view is usually larger than its front view, so give it when it is known.
+  double cda_vertical_m2 = 0.05;
+};
+
+/// A fixed-wing aircraft with a parabolic drag polar CD = CD0 + CL²/(π·e·AR).
+struct FixedWing {
+  std::string name;
+  double mass_empty_kg = 2.0;   ///< airframe with its drive, without pack and payload, kg
+  double payload_kg = 0.0;      ///< kg
+  double wing_area_m2 = 0.5;    ///< reference wing area S, m²
+  double cd0 = 0.03;            ///< zero-lift drag coefficient
+  double aspect_ratio = 8.0;    ///< AR = b²/S
+  double oswald_e = 0.8;        ///< span efficiency, 0 < e ≤ 1
+  double cl_max = 1.2;          ///< maximum lift coefficient (clean, at stall)
+};
+
+using Airframe = std::variant<Multirotor, FixedWing>;
+
+/// All-up mass = mass_empty_kg + payload_kg + pack mass (DESIGN.md "mass"), kg.
+double all_up_mass_kg(const Airframe& a, double pack_mass_kg);
+/// "multirotor" or "fixed_wing" (the file's "kind").
+const char* kind_name(const Airframe& a);
+/// The airframe's name, possibly empty.
+const std::string& name(const Airframe& a);
+
+}  // namespace sortie::flight
