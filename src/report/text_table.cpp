@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <regex>
 #include <cstdio>
 
 namespace sortie::report {
@@ -31,7 +32,22 @@ std::string pad(const std::string& s, std::size_t w, bool left) {
 }
 }  // namespace
 
+namespace {
+/// A number-like cell ("12.5", "-0.3", "+26.0 %", "739/800", "-"): right-aligned.
+bool numeric(const std::string& s) {
+  if (s.empty() || s == "-") return true;
+  static const std::regex number(R"(^[+-]?[0-9.]+(/[0-9.]+)?( ?[%A-Za-z]{1,3})?$)");
+  return std::regex_match(s, number);
+}
+}  // namespace
+
 std::string TextTable::render(const std::string& indent) const {
+  // Text columns are left-aligned, number columns right-aligned; the first is always text.
+  std::vector<bool> left(header_.size(), false);
+  left[0] = true;
+  for (const auto& r : rows_)
+    for (std::size_t c = 0; c < r.size() && c < left.size(); ++c)
+      if (!numeric(r[c])) left[c] = true;
   std::vector<std::size_t> w(header_.size(), 0);
   for (std::size_t c = 0; c < header_.size(); ++c) w[c] = display_width(header_[c]);
   for (const auto& r : rows_)
@@ -40,7 +56,7 @@ std::string TextTable::render(const std::string& indent) const {
     std::string out = indent;
     for (std::size_t c = 0; c < w.size(); ++c) {
       const std::string cell = c < cells.size() ? cells[c] : "";
-      out += pad(cell, w[c], c == 0);
+      out += pad(cell, w[c], left[c]);
       if (c + 1 < w.size()) out += "  ";
     }
     while (!out.empty() && out.back() == ' ') out.pop_back();
