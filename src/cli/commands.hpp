@@ -6,5 +6,6 @@
 namespace sortie::cli {
 
 void add_discharge_command(CLI::App& app, int& exit_code);
+void add_drive_command(CLI::App& app, int& exit_code);
 
 }  // namespace sortie::cli
