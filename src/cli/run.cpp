@@ -15,6 +15,8 @@ int run(int argc, char** argv) {
   int exit_code = kExitOk;
   add_discharge_command(app, exit_code);
   add_drive_command(app, exit_code);
+  add_fly_command(app, exit_code);
+  add_compare_command(app, exit_code);
   try {
     app.parse(argc, argv);
   } catch (const CLI::CallForHelp& e) {

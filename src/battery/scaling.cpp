@@ -1,0 +1,19 @@
+#include "battery/scaling.hpp"
+
+#include <cassert>
+
+namespace sortie::battery {
+
+Cell scale_cell(const Cell& c, double capacity_Ah) {
+  assert(capacity_Ah > 0 && c.capacity_Ah > 0);
+  const double k = capacity_Ah / c.capacity_Ah;
+  Cell out = c;
+  out.capacity_Ah = capacity_Ah;
+  out.mass_kg = c.mass_kg * k;
+  out.i_cont_max_A = c.i_cont_max_A * k;
+  out.r0_ohm = c.r0_ohm.scaled(1.0 / k);
+  for (auto& rc : out.rc) rc.r_ohm = rc.r_ohm.scaled(1.0 / k);
+  return out;
+}
+
+}  // namespace sortie::battery

@@ -1,0 +1,82 @@
+// `sortie compare PROFILE.json (--pack A.json ... | --series ... --capacity-Ah ... [--parallel ...])`
+#include <unistd.h>
+
+#include <cstdio>
+#include <iostream>
+
+#include "cli/commands.hpp"
+#include "core/error.hpp"
+#include "io/battery_json.hpp"
+#include "io/output.hpp"
+#include "io/profile_json.hpp"
+#include "report/compare_report.hpp"
+#include "sim/compare.hpp"
+
+namespace sortie::cli {
+
+namespace {
+
+struct CompareOptions {
+  std::string profile, cell, json_file;
+  std::vector<std::string> packs;
+  std::vector<int> series, parallel{1};
+  std::vector<double> capacity_Ah;
+  bool quiet = false;
+};
+
+/// A progress bar on stderr, only when stderr is a terminal.
+void progress_bar(std::size_t done, std::size_t total) {
+  static const bool tty = ::isatty(2) != 0;
+  if (!tty || total < 2) return;
+  const int width = 30;
+  const int filled = static_cast<int>(width * done / total);
+  std::fprintf(stderr, "\r  [%s%s] %zu/%zu packs", std::string(filled, '#').c_str(),
+               std::string(width - filled, ' ').c_str(), done, total);
+  if (done == total) std::fprintf(stderr, "\r%*s\r", width + 24, "");
+  std::fflush(stderr);
+}
+
+int run_compare(const CompareOptions& o) {
+  const io::LoadedProfile lp = io::load_profile_file(o.profile);
+  std::vector<sim::PackCandidate> cands;
+  if (!o.packs.empty()) {
+    for (const auto& f : o.packs) {
+      battery::Pack p = io::load_pack_file(f);
+      cands.push_back({p.name.empty() ? f : p.name, p});
+    }
+  } else {
+    const battery::Cell cell = o.cell.empty() ? lp.mission.pack.cell : io::load_cell_file(o.cell);
+    cands = sim::pack_grid(cell, lp.mission.pack, o.series, o.capacity_Ah, o.parallel);
+  }
+  const auto rows = sim::compare_packs(lp.mission, cands, progress_bar);
+  if (!o.json_file.empty()) io::write_output(o.json_file, report::compare_json(lp.mission, rows).dump(2) + "\n");
+  if (!o.quiet && o.json_file != "-") std::cout << report::compare_text(lp.mission, rows);
+  return 0;
+}
+
+}  // namespace
+
+void add_compare_command(CLI::App& app, int& exit_code) {
+  auto o = std::make_shared<CompareOptions>();
+  CLI::App* c = app.add_subcommand("compare", "Fly one mission with several packs and rank them by spare time");
+  c->add_option("PROFILE", o->profile, "mission profile (JSON)")->required()->check(CLI::ExistingFile);
+  auto* pk = c->add_option("--pack", o->packs, "a pack file to compare (repeat for each)")->check(CLI::ExistingFile);
+  auto* se = c->add_option("--series", o->series, "cell counts in series, e.g. 2,3,4,6")
+                 ->delimiter(',')->check(CLI::Range(1, 1000));
+  auto* ca = c->add_option("--capacity-Ah", o->capacity_Ah, "cell capacities, Ah, e.g. 3,4,5 (a pack holds --parallel times that)")
+                 ->delimiter(',')->check(CLI::Range(0.01, 10000.0));
+  c->add_option("--parallel", o->parallel, "cells in parallel, e.g. 1,2 (default 1)")
+      ->delimiter(',')->check(CLI::Range(1, 1000));
+  c->add_option("--cell", o->cell, "cell to build the packs from (default: the profile pack's cell)")
+      ->check(CLI::ExistingFile);
+  pk->excludes(se)->excludes(ca);
+  c->add_option("--json", o->json_file, "write the ranked rows as JSON to FILE, or - for standard output");
+  c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
+  c->callback([o, &exit_code] {
+    if (o->packs.empty() && (o->series.empty() || o->capacity_Ah.empty()))
+      throw CLI::RequiredError("--pack (repeated), or --series with --capacity-Ah");
+    exit_code = run_compare(*o);
+  });
+}
+
+}  // namespace sortie::cli

@@ -1,0 +1,39 @@
+#pragma once
+/// A mission as the planner writes it: phases flown in order and the reserve rules that must
+/// hold (DESIGN.md "Profile"). Plain data, SI.
+#include <optional>
+#include <string>
+#include <vector>
+
+namespace sortie::flight {
+
+/// One phase. Which fields matter depends on the kind:
+///   climb / descend: to_height_m at rate_mps (vertical speed, positive), optional airspeed_mps
+///                    (fixed-wing climbs and glides along a path; multirotors climb vertically)
+///   cruise:          distance_m over the ground (or duration_s) at airspeed_mps on track_deg
+///   hover:           duration_s (multirotor only)
+///   loiter:          duration_s at airspeed_mps (circling: no net wind drift)
+struct Phase {
+  enum class Kind { climb, cruise, hover, loiter, descend };
+  Kind kind = Kind::hover;
+  std::string label;                   ///< optional name shown in reports
+  double to_height_m = 0.0;            ///< height above the field at the end, m
+  double rate_mps = 0.0;               ///< vertical speed, m/s (> 0)
+  std::optional<double> distance_m;    ///< ground distance, m
+  std::optional<double> duration_s;    ///< s
+  double airspeed_mps = 0.0;           ///< true airspeed, m/s
+  double track_deg = 0.0;              ///< ground track, degrees true
+  bool spare = false;                  ///< the phase the spare-time solve lengthens
+};
+
+const char* to_string(Phase::Kind k);
+
+/// Reserve rules; an absent rule is not checked.
+struct Reserve {
+  std::optional<double> soc_min;             ///< state of charge at landing, 0..1
+  std::optional<double> hover_s;             ///< time on station still available at landing, s
+  std::optional<double> v_rest_cell_min_V;   ///< resting cell voltage at landing, V
+  std::optional<double> v_load_cell_min_V;   ///< loaded cell voltage never crossed in flight, V
+};
+
+}  // namespace sortie::flight

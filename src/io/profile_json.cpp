@@ -1,0 +1,89 @@
+#include "io/profile_json.hpp"
+
+#include "core/error.hpp"
+#include "io/airframe_json.hpp"
+#include "io/battery_json.hpp"
+#include "io/drive_json.hpp"
+#include "io/mission_json.hpp"
+#include "flight/wind.hpp"
+
+namespace sortie::io {
+
+using flight::Phase;
+
+LoadedProfile load_profile_file(const std::filesystem::path& path,
+                                const std::filesystem::path& pack_override) {
+  ObjectReader r = open_model_file(path);
+  LoadedProfile out;
+  out.source = r.source();
+  sim::Mission& m = out.mission;
+  m.name = r.string_or("name", path.stem().string());
+  {
+    ObjectReader a = r.model("airframe");
+    m.airframe = read_airframe(a);
+  }
+  {
+    ObjectReader d = r.model("drive");
+    m.drive = read_drive(d);
+  }
+  if (pack_override.empty()) {
+    ObjectReader p = r.model("pack");
+    m.pack = read_pack(p);
+  } else {
+    r.has("pack");
+    m.pack = load_pack_file(pack_override);
+  }
+  m.avionics_W = r.number_or("avionics_W", 0.0, between(0.0, 10000.0, "W"));
+  if (r.has("environment")) {
+    ObjectReader e = r.object("environment");
+    m.environment = read_environment(e);
+  }
+  m.phases = read_phases(r, "phases");
+  for (std::size_t i = 0; i < m.phases.size(); ++i) out.phase_pointers.push_back("/phases/" + std::to_string(i));
+  if (r.has("reserve")) {
+    ObjectReader res = r.object("reserve");
+    m.reserve = read_reserve(res);
+  }
+  r.finish();
+
+  // Checks that need the airframe and the phases together.
+  const bool fixed_wing = std::holds_alternative<flight::FixedWing>(m.airframe);
+  for (std::size_t i = 0; i < m.phases.size(); ++i) {
+    const Phase& p = m.phases[i];
+    const std::string ptr = out.phase_pointers[i];
+    if (fixed_wing && p.kind == Phase::Kind::hover)
+      throw InputError(message(out.source, ptr + "/kind", "a fixed-wing aircraft cannot hover", "\"hover\"",
+                               "loiter with an airspeed_mps"));
+    if (fixed_wing && (p.kind == Phase::Kind::climb || p.kind == Phase::Kind::descend) && p.airspeed_mps <= 0.0)
+      throw InputError(message(out.source, ptr + "/airspeed_mps",
+                               "a fixed-wing climb or descent needs its airspeed along the path", "none",
+                               "airspeed_mps > 0 m/s"));
+  }
+  if (m.reserve.v_load_cell_min_V && *m.reserve.v_load_cell_min_V >= m.pack.cell.v_max_V)
+    throw InputError(message(out.source, "/reserve/v_load_cell_min_V", "reserve voltage at or above the cell's maximum",
+                             format_number(*m.reserve.v_load_cell_min_V) + " V",
+                             "below " + format_number(m.pack.cell.v_max_V) + " V"));
+  if (m.reserve.v_rest_cell_min_V && *m.reserve.v_rest_cell_min_V >= m.pack.cell.v_max_V)
+    throw InputError(message(out.source, "/reserve/v_rest_cell_min_V", "reserve voltage at or above the cell's maximum",
+                             format_number(*m.reserve.v_rest_cell_min_V) + " V",
+                             "below " + format_number(m.pack.cell.v_max_V) + " V"));
+  for (std::size_t i = 0; i < m.phases.size(); ++i) {
+    const Phase& p = m.phases[i];
+    if (p.kind != Phase::Kind::cruise || p.duration_s) continue;
+    if (!sim::planned_duration_s(m, i)) {
+      const auto leg = flight::solve_leg(m.environment.wind, p.track_deg, p.airspeed_mps);
+      throw InputError(message(out.source, out.phase_pointers[i] + "/airspeed_mps", leg.detail,
+                               format_number(p.airspeed_mps) + " m/s", "an airspeed that makes headway in this wind"));
+    }
+  }
+  return out;
+}
+
+std::string refusal_message(const LoadedProfile& p, const sim::MissionResult& r) {
+  const std::string ptr = r.end_phase >= 0 && static_cast<std::size_t>(r.end_phase) < p.phase_pointers.size()
+                              ? p.phase_pointers[r.end_phase] + "/" + r.refusal_field
+                              : "";
+  return message(p.source, ptr, "this phase cannot be flown: " + r.end_detail);
+}
+
+}  // namespace sortie::io

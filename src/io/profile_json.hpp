@@ -1,0 +1,26 @@
+#pragma once
+/// A whole profile (DESIGN.md "Profile"): airframe, drive and pack (inline or relative paths),
+/// environment, phases and reserve, checked against each other once at load.
+#include <filesystem>
+#include <string>
+#include <vector>
+
+#include "io/json_reader.hpp"
+#include "sim/mission.hpp"
+
+namespace sortie::io {
+
+struct LoadedProfile {
+  sim::Mission mission;
+  Source source;                             ///< the profile file
+  std::vector<std::string> phase_pointers;   ///< "/phases/0", ... for messages
+};
+
+/// `pack_override`: a pack file used in place of the profile's "pack".
+LoadedProfile load_profile_file(const std::filesystem::path& path,
+                                const std::filesystem::path& pack_override = {});
+
+/// The one-line error for a phase the airframe or drive cannot fly (a simulation refusal).
+std::string refusal_message(const LoadedProfile& p, const sim::MissionResult& r);
+
+}  // namespace sortie::io

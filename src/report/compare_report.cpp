@@ -1,0 +1,86 @@
+#include "report/compare_report.hpp"
+
+#include "report/mission_report.hpp"
+#include "report/text_table.hpp"
+
+namespace sortie::report {
+
+namespace {
+
+/// What limits or sinks a row, in a few words.
+std::string limit_words(const sim::CompareRow& row) {
+  const auto& r = row.result;
+  if (r.refused) return "cannot fly: " + r.end_detail;
+  if (!r.completed) return "ends early: " + r.end_kind;
+  if (!r.go) {
+    std::string s = "fails:";
+    for (const auto& rule : r.rules)
+      if (!rule.pass) s += " " + rule.name;
+    return s;
+  }
+  return row.spare.binding_rule.empty() ? "" : "then " + row.spare.binding_rule;
+}
+
+std::string spare_cell(const sim::CompareRow& row) {
+  if (row.result.refused || !row.spare.phase) return "-";
+  std::string s = fixed(row.spare.spare_s, 0);
+  if (row.spare.spare_s > 0) s = "+" + s;
+  return s;
+}
+
+}  // namespace
+
+std::string compare_text(const sim::Mission& base, const std::vector<sim::CompareRow>& rows) {
+  std::string out = "sortie compare: " + base.name + "\n";
+  if (!rows.empty() && rows.front().spare.phase)
+    out += "spare time is on phase " + phase_name(base, static_cast<int>(*rows.front().spare.phase)) + "\n";
+  out += "\n";
+  TextTable t({"rank", "pack", "verdict", "spare s", "flight s", "landing SoC %", "pack kg", "all-up kg", "max C",
+               "duty mean", "ESC η mean", "limit"});
+  int rank = 0;
+  for (const auto& row : rows) {
+    const auto& r = row.result;
+    t.add_row({std::to_string(++rank), row.candidate.label, r.go ? "go" : "NO-GO", spare_cell(row),
+               fixed(r.flight_time_s, 0), r.refused ? "-" : fixed(r.landing.soc * 100, 1), fixed(r.pack_mass_kg, 3),
+               fixed(r.all_up_mass_kg, 3), r.refused ? "-" : fixed(r.c_rate_max, 2), r.refused ? "-" : fixed(r.duty_mean, 3),
+               r.refused ? "-" : fixed(r.eta_esc_mean, 3), limit_words(row)});
+  }
+  out += t.render();
+  out += "\nAn estimate from models, not a clearance to fly: follow local aviation rules and the\n"
+         "makers' limits, and keep your own reserve.\n";
+  return out;
+}
+
+nlohmann::json compare_json(const sim::Mission& base, const std::vector<sim::CompareRow>& rows) {
+  using nlohmann::json;
+  json j;
+  j["schema"] = kCompareSchema;
+  j["name"] = base.name;
+  json arr = json::array();
+  int rank = 0;
+  for (const auto& row : rows) {
+    const auto& r = row.result;
+    arr.push_back({{"rank", ++rank},
+                   {"pack", row.candidate.label},
+                   {"layout", row.candidate.pack.layout()},
+                   {"series", row.candidate.pack.series},
+                   {"parallel", row.candidate.pack.parallel},
+                   {"capacity_Ah", row.candidate.pack.capacity_Ah()},
+                   {"verdict", r.go ? "go" : "no-go"},
+                   {"refused", r.refused},
+                   {"spare_s", row.spare.phase && !r.refused ? json(row.spare.spare_s) : json()},
+                   {"binding_rule", row.spare.binding_rule},
+                   {"flight_time_s", r.flight_time_s},
+                   {"landing_soc", r.landing.soc},
+                   {"pack_mass_kg", r.pack_mass_kg},
+                   {"all_up_mass_kg", r.all_up_mass_kg},
+                   {"c_rate_max", r.c_rate_max},
+                   {"duty_mean", r.duty_mean},
+                   {"eta_esc_mean", r.eta_esc_mean},
+                   {"limit", limit_words(row)}});
+  }
+  j["rows"] = arr;
+  return j;
+}
+
+}  // namespace sortie::report

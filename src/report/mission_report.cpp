@@ -1,0 +1,204 @@
+#include "report/mission_report.hpp"
+
+#include <cmath>
+
+#include "flight/atmosphere.hpp"
+#include "report/discharge_report.hpp"
+#include "report/text_table.hpp"
+
+namespace sortie::report {
+
+using sim::MissionResult;
+
+std::string phase_name(const sim::Mission& m, int i) {
+  if (i < 0 || static_cast<std::size_t>(i) >= m.phases.size()) return "after landing";
+  const auto& p = m.phases[i];
+  std::string s = std::to_string(i + 1) + " " + flight::to_string(p.kind);
+  if (!p.label.empty()) s += " (" + p.label + ")";
+  return s;
+}
+
+std::string rule_words(const std::string& name) {
+  if (name == "mission_flown") return "whole mission flown";
+  if (name == "soc_min") return "charge at landing";
+  if (name == "hover_s") return "time on station left at landing";
+  if (name == "v_rest_cell_min_V") return "resting cell voltage at landing";
+  if (name == "v_load_cell_min_V") return "loaded cell voltage in flight";
+  return name;
+}
+
+std::string rule_value(const sim::RuleCheck& r, double v) {
+  if (r.name == "soc_min") return fixed(v * 100.0, 1) + " %";
+  if (r.unit == "V") return fixed(v, 3) + " V";
+  if (r.unit == "s") return fixed(v, 0) + " s";
+  return fixed(v, 3);
+}
+
+std::string verdict_line(const sim::Mission& m, const MissionResult& r, const sim::SpareResult& s) {
+  if (r.go) {
+    std::string line = "GO: the whole mission is flown and every reserve rule holds";
+    if (s.phase) {
+      line += "; " + duration_hms(s.spare_s) + " to spare on phase " + phase_name(m, static_cast<int>(*s.phase));
+      if (!s.binding_rule.empty()) line += " (then " + rule_words(s.binding_rule) + " binds)";
+    }
+    return line;
+  }
+  std::string why;
+  if (!r.completed) {
+    why = "the flight ends early in phase " + phase_name(m, r.end_phase) + " at " + fixed(r.flight_time_s, 0) +
+          " s: " + r.end_detail;
+  } else {
+    for (const auto& rule : r.rules) {
+      if (rule.pass) continue;
+      if (!why.empty()) why += "; ";
+      why += rule_words(rule.name) + " " + rule_value(rule, rule.actual) + ", needs " + rule_value(rule, rule.required);
+    }
+  }
+  std::string line = "NO-GO: " + why;
+  if (s.phase && s.spare_s < 0) {
+    line += s.bounded ? "; shorten phase " + phase_name(m, static_cast<int>(*s.phase)) + " by " + duration_hms(-s.spare_s)
+                      : "; " + s.note;
+  }
+  return line;
+}
+
+std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::SpareResult& s) {
+  std::string out = "sortie fly: " + m.name + "\n\n";
+  KeyValues head;
+  const std::string af_name = flight::name(m.airframe);
+  head.add("aircraft", std::string(flight::kind_name(m.airframe)) + (af_name.empty() ? "" : " \"" + af_name + "\"") +
+                           ", all-up " + fixed(r.all_up_mass_kg, 3) + " kg (pack " + fixed(r.pack_mass_kg, 3) + " kg)");
+  head.add("drive", (m.drive.name.empty() ? std::string("drive") : m.drive.name) + ", " +
+                        std::to_string(m.drive.rotors) + " rotor" + (m.drive.rotors > 1 ? "s" : ""));
+  head.add("pack", (m.pack.name.empty() ? m.pack.cell.name : m.pack.name) + ", " + m.pack.layout() + " " +
+                       fixed(m.pack.capacity_Ah(), 2) + " Ah at " + fixed(m.pack.temperature_C, 0) +
+                       " °C, starting at " + fixed(m.pack.soc0 * 100, 0) + " % charge");
+  const auto& atm = m.environment.atmosphere;
+  head.add("air", "field " + fixed(atm.field_elevation_m, 0) + " m, " +
+                      fixed(atm.field_temperature_K() - flight::kCelsiusZero, 1) + " °C (ISA " +
+                      (atm.isa_offset_K >= 0 ? "+" : "") + fixed(atm.isa_offset_K, 1) + " °C), wind " +
+                      fixed(m.environment.wind.speed_mps, 1) + " m/s from " + fixed(m.environment.wind.from_deg, 0) + "°");
+  if (m.avionics_W > 0) head.add("avionics", fixed(m.avionics_W, 1) + " W");
+  out += head.render() + "\n";
+  out += (r.go ? "  >> " : "  !! ") + verdict_line(m, r, s) + "\n\n";
+
+  out += "phases\n";
+  TextTable pt({"phase", "start s", "time s", "dist m", "thrust/rotor N", "energy Wh", "charge Ah",
+                "min cell V", "max A", "max C", "duty mean", "duty max", "η drive"});
+  for (std::size_t i = 0; i < r.phases.size(); ++i) {
+    const auto& p = r.phases[i];
+    const bool flown_any = p.duration_s > 0 || p.flown;
+    std::string time = fixed(p.duration_s, 0);
+    if (!p.flown) time += "/" + fixed(p.planned_s, 0);
+    pt.add_row({phase_name(m, static_cast<int>(i)), fixed(p.start_s, 0), time, fixed(p.distance_m, 0),
+                flown_any ? fixed(p.thrust_per_rotor_N, 2) : "-", fixed(p.energy_Wh, 2), fixed(p.charge_Ah, 3),
+                flown_any ? fixed(p.v_min_cell_V, 3) : "-", flown_any ? fixed(p.i_max_A, 1) : "-",
+                flown_any ? fixed(p.c_rate_max, 2) : "-", flown_any ? fixed(p.duty_mean, 3) : "-",
+                flown_any ? fixed(p.duty_max, 3) : "-", flown_any ? fixed(p.eta_mean, 3) : "-"});
+  }
+  out += pt.render();
+  out += "  (time s: flown/planned where the flight ended early; η drive = shaft energy / drive energy, motor × ESC)\n\n";
+
+  KeyValues land;
+  land.add("flight time", fixed(r.flight_time_s, 0) + " s (" + duration_hms(r.flight_time_s) + ")" +
+                              (r.completed ? "" : ", ended early"));
+  land.add("energy used", fixed(r.energy_Wh, 2) + " Wh, " + fixed(r.charge_Ah, 3) + " Ah");
+  land.add("state of charge at landing", fixed(r.landing.soc * 100, 1) + " %");
+  land.add("energy left at landing", fixed(r.landing.energy_Wh, 2) + " Wh (open-circuit)");
+  land.add("resting cell voltage at landing", fixed(r.landing.v_rest_cell_V, 3) + " V");
+  land.add("lowest loaded cell voltage", fixed(r.v_min_cell_V, 3) + " V");
+  land.add("highest current", fixed(r.i_max_A, 1) + " A (" + fixed(r.c_rate_max, 2) + " C)");
+  land.add("mean duty, mean ESC efficiency", fixed(r.duty_mean, 3) + ", " + fixed(r.eta_esc_mean, 3));
+  if (m.reserve.hover_s) land.add("time on station left at landing", fixed(r.reserve_time_s, 0) + " s");
+  if (s.phase)
+    land.add("spare time", (s.spare_s >= 0 ? "+" : "") + fixed(s.spare_s, 0) + " s on phase " +
+                               phase_name(m, static_cast<int>(*s.phase)) +
+                               (s.binding_rule.empty() ? "" : ", limited by " + rule_words(s.binding_rule)) +
+                               (s.note.empty() ? "" : " (" + s.note + ")"));
+  out += "landing\n" + land.render() + "\n";
+
+  out += "reserve rules\n";
+  TextTable rt({"rule", "required", "actual", "margin", "result"});
+  for (const auto& rule : r.rules) {
+    std::string margin = rule.name == "soc_min" ? fixed(rule.margin * 100, 1) + " %" : rule_value(rule, rule.margin);
+    if (rule.margin > 0 && margin[0] != '-') margin = "+" + margin;
+    rt.add_row({rule_words(rule.name), rule_value(rule, rule.required), rule_value(rule, rule.actual), margin,
+                rule.pass ? "pass" : "FAIL"});
+  }
+  out += rt.render() + "\n";
+
+  if (!r.events.empty()) {
+    out += "events\n";
+    TextTable et({"t s", "phase", "event", "detail"});
+    for (const auto& e : r.events) et.add_row({fixed(e.t_s, 1), phase_name(m, e.phase), e.kind, e.detail});
+    out += et.render() + "\n";
+  }
+  out += "An estimate from models, not a clearance to fly: follow local aviation rules and the\n"
+         "makers' limits, and keep your own reserve.\n";
+  return out;
+}
+
+nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim::SpareResult& s) {
+  using nlohmann::json;
+  json j;
+  j["schema"] = kFlySchema;
+  j["name"] = m.name;
+  j["verdict"] = r.go ? "go" : "no-go";
+  j["verdict_text"] = verdict_line(m, r, s);
+  j["completed"] = r.completed;
+  if (!r.completed) j["end"] = {{"kind", r.end_kind}, {"phase", r.end_phase}, {"detail", r.end_detail}};
+  j["flight_time_s"] = r.flight_time_s;
+  j["spare_s"] = s.phase ? json(s.spare_s) : json();
+  j["spare"] = {{"phase", s.phase ? json(*s.phase) : json()}, {"binding_rule", s.binding_rule},
+                {"bounded", s.bounded}, {"note", s.note}, {"simulations", s.simulations}};
+  j["mass"] = {{"all_up_kg", r.all_up_mass_kg}, {"pack_kg", r.pack_mass_kg}};
+  j["pack"] = {{"name", m.pack.name}, {"layout", m.pack.layout()}, {"series", m.pack.series},
+               {"parallel", m.pack.parallel}, {"capacity_Ah", m.pack.capacity_Ah()}};
+  j["energy_Wh"] = r.energy_Wh;
+  j["charge_Ah"] = r.charge_Ah;
+  j["v_min_cell_V"] = r.v_min_cell_V;
+  j["i_max_A"] = r.i_max_A;
+  j["c_rate_max"] = r.c_rate_max;
+  j["duty_mean"] = r.duty_mean;
+  j["eta_esc_mean"] = r.eta_esc_mean;
+  j["eta_mean"] = r.eta_mean;
+  j["landing"] = {{"soc", r.landing.soc}, {"energy_Wh", r.landing.energy_Wh},
+                  {"v_rest_cell_V", r.landing.v_rest_cell_V}, {"reserve_time_s", r.reserve_time_s}};
+  json phases = json::array();
+  for (std::size_t i = 0; i < r.phases.size(); ++i) {
+    const auto& p = r.phases[i];
+    phases.push_back({{"kind", flight::to_string(p.kind)}, {"label", p.label}, {"start_s", p.start_s},
+                      {"duration_s", p.duration_s}, {"planned_s", p.planned_s}, {"flown", p.flown},
+                      {"distance_m", p.distance_m}, {"energy_Wh", p.energy_Wh}, {"charge_Ah", p.charge_Ah},
+                      {"v_min_cell_V", p.v_min_cell_V}, {"i_max_A", p.i_max_A}, {"c_rate_max", p.c_rate_max},
+                      {"duty_mean", p.duty_mean}, {"duty_max", p.duty_max}, {"eta_mean", p.eta_mean},
+                      {"thrust_per_rotor_N", p.thrust_per_rotor_N}, {"density_kg_m3", p.density_kg_m3},
+                      {"ground_speed_mps", p.ground_speed_mps}});
+  }
+  j["phases"] = phases;
+  json ev = json::array();
+  for (const auto& e : r.events)
+    ev.push_back({{"t_s", e.t_s}, {"kind", e.kind}, {"phase", e.phase}, {"detail", e.detail}});
+  j["events"] = ev;
+  json rules = json::array();
+  for (const auto& rule : r.rules)
+    rules.push_back({{"name", rule.name}, {"unit", rule.unit}, {"required", rule.required},
+                     {"actual", rule.actual}, {"margin", rule.margin}, {"pass", rule.pass}});
+  j["rules"] = rules;
+  return j;
+}
+
+std::string fly_trace_csv(const MissionResult& r) {
+  std::string out = "time_s,current_A,v_terminal_V,v_ocv_V,soc,power_W,phase,duty,thrust_N\n";
+  char buf[320];
+  for (const auto& tp : r.trace) {
+    const auto& s = tp.s;
+    std::snprintf(buf, sizeof buf, "%.4f,%.6g,%.6f,%.6f,%.7f,%.6g,%d,%.5f,%.5g\n", s.t, s.term.current_A,
+                  s.term.v_terminal_V, s.term.v_ocv_V, s.x[battery::kSoc], s.term.power_W, tp.phase, tp.duty,
+                  tp.thrust_N);
+    out += buf;
+  }
+  return out;
+}
+
+}  // namespace sortie::report

@@ -1,0 +1,582 @@
+#include "sim/mission.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <limits>
+
+#include "core/error.hpp"
+#include "core/roots.hpp"
+#include "flight/atmosphere.hpp"
+#include "flight/fixed_wing.hpp"
+#include "flight/thrust_need.hpp"
+#include "flight/wind.hpp"
+#include "propulsion/operating_point.hpp"
+
+namespace sortie::sim {
+
+using flight::Phase;
+namespace prop = propulsion;
+
+namespace {
+
+constexpr double kInf = std::numeric_limits<double>::infinity();
+
+std::string fixed(double v, int digits) {
+  char buf[64];
+  std::snprintf(buf, sizeof buf, "%.*f", digits, v);
+  return buf;
+}
+
+bool is_multirotor(const flight::Airframe& a) { return std::holds_alternative<flight::Multirotor>(a); }
+
+/// Height above the field at the start of each phase, and at the end of the last.
+std::vector<double> start_heights(const std::vector<Phase>& phases) {
+  std::vector<double> h{0.0};
+  for (const auto& p : phases) {
+    const bool vertical = p.kind == Phase::Kind::climb || p.kind == Phase::Kind::descend;
+    h.push_back(vertical ? p.to_height_m : h.back());
+  }
+  return h;
+}
+
+/// The steady condition flown through one stretch of a phase.
+struct Stretch {
+  double duration_s = 0.0;
+  double h_mid_m = 0.0;
+  double h_start_m = 0.0, h_end_m = 0.0;
+};
+
+/// Airspeed flown in a phase: a multirotor holding position (hover, vertical climb or descent)
+/// flies at the wind speed; everything else at the phase's true airspeed.
+double phase_airspeed(const Mission& m, const Phase& p) {
+  const bool holds_position = p.kind == Phase::Kind::hover ||
+                              ((p.kind == Phase::Kind::climb || p.kind == Phase::Kind::descend) &&
+                               p.airspeed_mps <= 0.0);
+  if (is_multirotor(m.airframe) && holds_position) return m.environment.wind.speed_mps;
+  return p.airspeed_mps;
+}
+
+double vertical_rate(const Phase& p) {
+  if (p.kind == Phase::Kind::climb) return p.rate_mps;
+  if (p.kind == Phase::Kind::descend) return -p.rate_mps;
+  return 0.0;
+}
+
+/// Loiter speed used for the fixed-wing reserve: the minimum-power speed, kept 20 % above stall.
+double reserve_loiter_speed(const flight::FixedWing& w, double mass, double rho) {
+  const auto s = flight::wing_speeds(w, mass, rho);
+  return std::max(s.min_power_mps, 1.2 * s.stall_mps);
+}
+
+/// Event indices of one segment's event list.
+enum : std::size_t { kCutoff, kSaturation, kCollapse, kEmpty, kResVLoad, kResSoc, kOverCurrent };
+
+struct SegmentSetup {
+  battery::Demand demand;
+  double v_motor_V = 0.0;
+  double thrust_N = 0.0;
+  double axial_mps = 0.0;
+  double rho = 1.225;
+  double shaft_W = 0.0;       ///< per rotor
+  double motor_in_W = 0.0;    ///< per rotor, V_m·I_m
+};
+
+std::vector<EventSpec> make_events(const Mission& m, const SegmentSetup& s, double cutoff_cell_V) {
+  const double S = m.pack.series;
+  const double d_max = m.drive.esc.duty_max;
+  const double vm = s.v_motor_V;
+  const double i_limit = m.pack.cell.i_cont_max_A * m.pack.parallel;
+  const double v_res = m.reserve.v_load_cell_min_V.value_or(-1.0);
+  const double soc_res = m.reserve.soc_min.value_or(-1.0);
+  return {
+      {"cutoff_voltage", [=](const Sample& x) { return x.term.v_terminal_V / S - cutoff_cell_V; }, true},
+      // Saturation: the motor needs V_m but the ESC gives at most d_max·V_bus.
+      {"saturation", [=](const Sample& x) { return vm > 0 ? d_max * x.term.v_terminal_V - vm : 1.0; }, true},
+      {"power_collapse", [](const Sample& x) { return x.term.discriminant; }, true},
+      {"soc_floor", [](const Sample& x) { return x.x[battery::kSoc]; }, true},
+      {"reserve_v_load", [=](const Sample& x) { return v_res < 0 ? 1.0 : x.term.v_terminal_V / S - v_res; }, false},
+      {"reserve_soc", [=](const Sample& x) { return soc_res < 0 ? 1.0 : x.x[battery::kSoc] - soc_res; }, false},
+      {"over_current", [=](const Sample& x) { return i_limit - x.term.current_A; }, false},
+  };
+}
+
+/// Solve the airframe and drive for one stretch; a refusal fills `why` and `field`.
+std::optional<SegmentSetup> setup_stretch(const Mission& m, const Phase& p, double h_mid,
+                                          double mass, std::string& why, std::string& field,
+                                          std::vector<std::string>& warnings) {
+  const auto air = m.environment.atmosphere.at(h_mid);
+  if (!air) {
+    why = "height " + fixed(h_mid, 0) + " m above the field is beyond the ISA troposphere (11 km)";
+    field = "to_height_m";
+    return std::nullopt;
+  }
+  flight::FlightCondition c;
+  c.mass_kg = mass;
+  c.density_kg_m3 = air->density_kg_m3;
+  c.airspeed_mps = phase_airspeed(m, p);
+  c.climb_rate_mps = vertical_rate(p);
+  c.rotors = m.drive.rotors;
+  c.disk_area_m2 = m.drive.prop.disc_area_m2();
+  const auto need = flight::thrust_need(m.airframe, c);
+  if (flight::refused(need.status)) {
+    why = need.detail;
+    field = need.status == flight::FlightStatus::below_stall ? "airspeed_mps" : "rate_mps";
+    return std::nullopt;
+  }
+  if (need.status == flight::FlightStatus::vortex_ring) warnings.push_back("vortex_ring: " + need.detail);
+  const auto mp = prop::solve_motor(m.drive, need.thrust_per_rotor_N, need.axial_mps, air->density_kg_m3);
+  if (mp.status == prop::MotorStatus::infeasible) {
+    why = "the drive has no operating point for " + fixed(need.thrust_per_rotor_N, 2) +
+          " N per rotor at " + fixed(need.axial_mps, 1) + " m/s axial speed";
+    field = "kind";
+    return std::nullopt;
+  }
+  if (mp.status == prop::MotorStatus::over_current) {
+    const double lim = std::min(m.drive.motor.i_max_A, m.drive.esc.i_max_A);
+    warnings.push_back("motor_over_current: motor current " + fixed(mp.i_motor_A, 1) + " A above the " +
+                       fixed(lim, 1) + " A limit of the " + (mp.motor_over_current ? "motor" : "ESC"));
+  }
+  const auto bl = prop::bus_load(m.drive, mp);
+  SegmentSetup s;
+  const int N = m.drive.rotors;
+  // The battery sees Σ rotors P_bus + avionics (DESIGN.md): P(V) = N·a + avionics + N·b·V.
+  s.demand = battery::Demand::power(N * bl.a_W + m.avionics_W, N * bl.b_W_per_V);
+  s.v_motor_V = mp.v_motor_V;
+  s.thrust_N = need.thrust_per_rotor_N;
+  s.axial_mps = need.axial_mps;
+  s.rho = air->density_kg_m3;
+  s.shaft_W = mp.shaft_W;
+  s.motor_in_W = mp.v_motor_V * mp.i_motor_A;
+  return s;
+}
+
+/// Split a phase into stretches of at most `max_dh` of height, each flown at its middle height.
+std::vector<Stretch> stretches(double duration, double h0, double h1, double max_dh) {
+  const int n = std::max(1, static_cast<int>(std::ceil(std::fabs(h1 - h0) / max_dh - 1e-9)));
+  std::vector<Stretch> out;
+  for (int k = 0; k < n; ++k) {
+    Stretch s;
+    s.duration_s = duration / n;
+    s.h_start_m = h0 + (h1 - h0) * k / n;
+    s.h_end_m = h0 + (h1 - h0) * (k + 1) / n;
+    s.h_mid_m = 0.5 * (s.h_start_m + s.h_end_m);
+    out.push_back(s);
+  }
+  return out;
+}
+
+}  // namespace
+
+double stored_energy_Wh(const battery::Pack& p, double soc) {
+  // ∫₀^soc OCV(s) ds for the piecewise-linear table held flat beyond its ends (trapezoids).
+  const Table& ocv = p.cell.ocv_V;
+  const auto& xs = ocv.x();
+  double integral = 0.0, prev_x = 0.0, prev_v = ocv(0.0);
+  for (double xk : xs) {
+    if (xk <= 0.0) continue;
+    const double x = std::min(xk, soc);
+    const double v = ocv(x);
+    integral += 0.5 * (prev_v + v) * (x - prev_x);
+    prev_x = x;
+    prev_v = v;
+    if (xk >= soc) break;
+  }
+  if (soc > prev_x) integral += 0.5 * (prev_v + ocv(soc)) * (soc - prev_x);
+  return p.capacity_Ah() * p.series * integral;
+}
+
+std::optional<double> planned_duration_s(const Mission& m, std::size_t i) {
+  const Phase& p = m.phases.at(i);
+  const auto h = start_heights(m.phases);
+  switch (p.kind) {
+    case Phase::Kind::climb:
+    case Phase::Kind::descend: return std::fabs(p.to_height_m - h[i]) / p.rate_mps;
+    case Phase::Kind::hover:
+    case Phase::Kind::loiter: return p.duration_s.value_or(0.0);
+    case Phase::Kind::cruise: {
+      if (p.duration_s) return *p.duration_s;
+      const auto leg = flight::solve_leg(m.environment.wind, p.track_deg, p.airspeed_mps);
+      if (leg.status != flight::LegStatus::ok) return std::nullopt;
+      return p.distance_m.value_or(0.0) / leg.ground_speed_mps;  // d / (V − w) into a headwind
+    }
+  }
+  return std::nullopt;
+}
+
+MissionResult simulate(const Mission& m, const SimOptions& opts) {
+  MissionResult out;
+  const battery::PackModel pm(m.pack);
+  const double S = m.pack.series;
+  const double rated_Ah = m.pack.cell.capacity_Ah * m.pack.parallel;
+  const double cutoff = m.pack.cell.v_cutoff_V;
+  out.pack_mass_kg = m.pack.mass_kg();
+  out.all_up_mass_kg = flight::all_up_mass_kg(m.airframe, out.pack_mass_kg);
+  const auto heights = start_heights(m.phases);
+
+  battery::State x = pm.initial_state(m.pack.soc0);
+  double t = 0.0;
+  double next_sample = 0.0;
+  bool stopped = false;
+  bool reserve_v_seen = false, reserve_soc_seen = false;
+  double duty_integral = 0.0;
+  double planned_total = 0.0;
+  out.v_min_cell_V = kInf;
+  double shaft_J = 0.0, motor_in_J = 0.0, drive_J = 0.0;
+  battery::Demand last_demand;  // for the trace's exact end point
+  double last_vm = 0.0, last_h = 0.0;
+
+  for (std::size_t i = 0; i < m.phases.size() && !stopped; ++i) {
+    const Phase& p = m.phases[i];
+    PhaseSummary ps;
+    ps.kind = p.kind;
+    ps.label = p.label;
+    ps.start_s = t;
+    ps.height_start_m = heights[i];
+    ps.height_end_m = heights[i + 1];
+    ps.airspeed_mps = phase_airspeed(m, p);
+    ps.v_min_cell_V = kInf;
+    const auto planned = planned_duration_s(m, i);
+    if (!planned) {
+      const auto leg = flight::solve_leg(m.environment.wind, p.track_deg, p.airspeed_mps);
+      out.refused = true;
+      out.end_kind = "refused";
+      out.end_detail = leg.detail;
+      out.refusal_field = "airspeed_mps";
+      out.end_phase = static_cast<int>(i);
+      out.phases.push_back(ps);
+      stopped = true;
+      break;
+    }
+    ps.planned_s = *planned;
+    planned_total += *planned;
+    if (p.kind == Phase::Kind::cruise) {
+      const auto leg = flight::solve_leg(m.environment.wind, p.track_deg, p.airspeed_mps);
+      ps.ground_speed_mps = leg.ground_speed_mps;
+      ps.heading_deg = leg.heading_deg;
+    }
+    const battery::State x_phase0 = x;
+    double phase_duty_integral = 0.0;
+    std::vector<std::string> phase_warnings;
+    bool warned_over_current = false;
+    const double cell_i_limit = m.pack.cell.i_cont_max_A * m.pack.parallel;
+
+    for (const Stretch& st : stretches(*planned, heights[i], heights[i + 1], opts.max_height_step_m)) {
+      std::string why, field;
+      const auto setup = setup_stretch(m, p, st.h_mid_m, out.all_up_mass_kg, why, field, phase_warnings);
+      if (!setup) {
+        out.refused = true;
+        out.end_kind = "refused";
+        out.end_detail = why;
+        out.refusal_field = field;
+        out.end_phase = static_cast<int>(i);
+        stopped = true;
+        break;
+      }
+      if (ps.density_kg_m3 == 0.0 || std::fabs(st.h_mid_m - 0.5 * (heights[i] + heights[i + 1])) < 1e-9 ||
+          ps.thrust_per_rotor_N == 0.0) {
+        ps.density_kg_m3 = setup->rho;
+        ps.thrust_per_rotor_N = setup->thrust_N;
+        ps.shaft_W = setup->shaft_W;
+      }
+      const auto events = make_events(m, *setup, cutoff);
+      SegmentOptions so;
+      so.t_end = t + st.duration_s;
+      so.sample_s = opts.sample_s;
+      so.next_sample_t = next_sample;
+      so.max_steps = opts.max_steps_per_phase;
+      so.abs_tol = 1e-9;
+      so.rel_tol = 1e-9;
+      const double vm = setup->v_motor_V;
+      auto track = [&](const Sample& s) {
+        ps.v_min_cell_V = std::min(ps.v_min_cell_V, s.term.v_terminal_V / S);
+        ps.i_max_A = std::max(ps.i_max_A, s.term.current_A);
+        if (vm > 0) ps.duty_max = std::max(ps.duty_max, vm / s.term.v_terminal_V);
+      };
+      const StepHook hook = [&](double ta, double tb, const std::function<Sample(double)>& at) {
+        const Sample a = at(ta), mid = at(0.5 * (ta + tb)), b = at(tb);
+        track(a);
+        track(mid);
+        track(b);
+        // ∫ d dt by Simpson's rule on the dense output, d = V_m/V.
+        if (vm > 0)
+          phase_duty_integral += (tb - ta) / 6.0 *
+                                 (vm / a.term.v_terminal_V + 4 * vm / mid.term.v_terminal_V + vm / b.term.v_terminal_V);
+      };
+      SegmentResult seg = run_segment(pm, setup->demand, t, x, events, so, hook);
+      next_sample = seg.next_sample_t;
+      track(seg.end);
+      const double dt = seg.end.t - t;
+      shaft_J += m.drive.rotors * setup->shaft_W * dt;
+      motor_in_J += m.drive.rotors * setup->motor_in_W * dt;
+      drive_J += (seg.end.x[battery::kEnergy] - x[battery::kEnergy]) - m.avionics_W * dt;
+      for (const auto& smp : seg.samples) {
+        const double frac = st.duration_s > 0 ? (smp.t - (so.t_end - st.duration_s)) / st.duration_s : 0.0;
+        out.trace.push_back({smp, static_cast<int>(i), vm > 0 ? vm / smp.term.v_terminal_V : 0.0,
+                             setup->thrust_N, st.h_start_m + frac * (st.h_end_m - st.h_start_m)});
+      }
+      for (const auto& w : seg.warnings) {
+        const int pi = static_cast<int>(i);
+        if (w.event == kResVLoad && !reserve_v_seen) {
+          reserve_v_seen = true;
+          out.events.push_back({w.at.t, "reserve_v_load", pi,
+                                "loaded cell voltage fell below the reserve " +
+                                    fixed(*m.reserve.v_load_cell_min_V, 2) + " V"});
+        } else if (w.event == kResSoc && !reserve_soc_seen) {
+          reserve_soc_seen = true;
+          out.events.push_back({w.at.t, "reserve_soc", pi,
+                                "state of charge fell below the reserve " +
+                                    fixed(*m.reserve.soc_min * 100, 0) + " %"});
+        } else if (w.event == kOverCurrent && !warned_over_current) {
+          warned_over_current = true;
+          out.events.push_back({w.at.t, "over_current", pi,
+                                "cell current " + fixed(w.at.term.current_A / m.pack.parallel, 1) +
+                                    " A above the continuous limit " + fixed(m.pack.cell.i_cont_max_A, 1) + " A"});
+        }
+      }
+      (void)cell_i_limit;
+      last_demand = setup->demand;
+      last_vm = vm;
+      last_h = st.duration_s > 0 ? st.h_start_m + (st.h_end_m - st.h_start_m) * dt / st.duration_s : st.h_end_m;
+      t = seg.end.t;
+      x = seg.end.x;
+      if (seg.stopped) {
+        stopped = true;
+        out.end_phase = static_cast<int>(i);
+        out.end_kind = events[*seg.stopped].kind;
+        const double v = seg.end.term.v_terminal_V;
+        if (*seg.stopped == kCutoff) {
+          out.end_detail = "loaded cell voltage reached the cutoff " + fixed(cutoff, 2) + " V";
+        } else if (*seg.stopped == kSaturation) {
+          const double avail = prop::thrust_available(m.drive, setup->axial_mps, setup->rho, v);
+          const double need = setup->thrust_N;
+          out.end_detail = "the drive cannot give the thrust needed: at " + fixed(v, 2) + " V it gives " +
+                           fixed(avail, 2) + " N per rotor at full duty, the phase needs " + fixed(need, 2) +
+                           " N (short by " + fixed(need - avail, 2) + " N, " +
+                           fixed(100 * (need - avail) / need, 1) + " %)";
+        } else if (*seg.stopped == kCollapse) {
+          out.end_detail = "power collapse: the pack cannot deliver " + fixed(setup->demand.a + setup->demand.b * v, 0) + " W";
+        } else {
+          out.end_detail = "the pack is empty (state of charge 0)";
+        }
+        out.events.push_back({t, out.end_kind, static_cast<int>(i), out.end_detail});
+        break;
+      }
+    }
+    for (const auto& w : phase_warnings) {
+      const auto colon = w.find(": ");
+      const std::string kind = w.substr(0, colon);
+      bool seen = false;
+      for (const auto& e : out.events) seen = seen || (e.kind == kind && e.phase == static_cast<int>(i));
+      if (!seen) out.events.push_back({ps.start_s, kind, static_cast<int>(i), w.substr(colon + 2)});
+    }
+    ps.duration_s = t - ps.start_s;
+    ps.flown = !stopped;
+    ps.energy_Wh = (x[battery::kEnergy] - x_phase0[battery::kEnergy]) / 3600.0;
+    ps.charge_Ah = (x[battery::kCharge] - x_phase0[battery::kCharge]) / 3600.0;
+    ps.c_rate_max = ps.i_max_A / rated_Ah;
+    ps.duty_mean = ps.duration_s > 0 ? phase_duty_integral / ps.duration_s : ps.duty_max;
+    const double phase_drive_J = ps.energy_Wh * 3600.0 - m.avionics_W * ps.duration_s;
+    ps.eta_mean = phase_drive_J > 0 ? m.drive.rotors * ps.shaft_W * ps.duration_s / phase_drive_J : 0.0;
+    ps.distance_m = p.kind == Phase::Kind::cruise ? ps.ground_speed_mps * ps.duration_s : 0.0;
+    if (!std::isfinite(ps.v_min_cell_V)) ps.v_min_cell_V = 0.0;
+    if (ps.duration_s > 0 || ps.flown) {
+      out.v_min_cell_V = std::min(out.v_min_cell_V, ps.v_min_cell_V);
+      out.i_max_A = std::max(out.i_max_A, ps.i_max_A);
+    }
+    duty_integral += phase_duty_integral;
+    // Events were pushed in order of phases; keep each phase's in time order.
+    out.phases.push_back(ps);
+  }
+  // Phases after the end keep their plan so the report can show what was not flown.
+  for (std::size_t i = out.phases.size(); i < m.phases.size(); ++i) {
+    PhaseSummary ps;
+    ps.kind = m.phases[i].kind;
+    ps.label = m.phases[i].label;
+    ps.start_s = t;
+    ps.planned_s = planned_duration_s(m, i).value_or(0.0);
+    planned_total += ps.planned_s;
+    out.phases.push_back(ps);
+  }
+  if (opts.sample_s > 0 && !out.trace.empty() && out.trace.back().s.t < t) {
+    TracePoint last = out.trace.back();
+    last.s = Sample{t, x, battery::Thevenin{pm, last_demand}.terminal(x, t)};
+    last.duty = last_vm > 0 ? last_vm / last.s.term.v_terminal_V : 0.0;
+    last.height_m = last_h;
+    out.trace.push_back(last);
+  }
+  std::stable_sort(out.events.begin(), out.events.end(),
+                   [](const MissionEvent& a, const MissionEvent& b) { return a.t_s < b.t_s; });
+
+  out.completed = !stopped;
+  out.flight_time_s = t;
+  out.energy_Wh = x[battery::kEnergy] / 3600.0;
+  out.charge_Ah = x[battery::kCharge] / 3600.0;
+  out.c_rate_max = out.i_max_A / rated_Ah;
+  out.duty_mean = t > 0 ? duty_integral / t : 0.0;
+  out.eta_mean = drive_J > 0 ? shaft_J / drive_J : 0.0;
+  out.eta_esc_mean = drive_J > 0 ? motor_in_J / drive_J : 0.0;
+  if (!std::isfinite(out.v_min_cell_V)) out.v_min_cell_V = pm.ocv_pack(m.pack.soc0) / S;
+
+  // Landing state.
+  const battery::Thevenin rest{pm, battery::Demand::current(0.0)};
+  out.landing.soc = x[battery::kSoc];
+  out.landing.energy_Wh = stored_energy_Wh(m.pack, std::max(0.0, x[battery::kSoc]));
+  out.landing.v_rest_cell_V = pm.ocv_cell_V(x[battery::kSoc]);
+  out.landing.v_load_cell_V = out.trace.empty() ? out.v_min_cell_V : out.trace.back().s.term.v_terminal_V / S;
+  (void)rest;
+
+  // Time on station left at landing: hover (multirotor) or loiter at the minimum-power speed
+  // (fixed wing) at the field, from the landing state, until the loaded cell voltage reaches
+  // the higher of the cutoff and the in-flight reserve voltage.
+  if (m.reserve.hover_s && out.completed) {
+    Phase hold;
+    if (is_multirotor(m.airframe)) {
+      hold.kind = Phase::Kind::hover;
+    } else {
+      hold.kind = Phase::Kind::loiter;
+      const auto air = m.environment.atmosphere.at(0.0);
+      hold.airspeed_mps = reserve_loiter_speed(std::get<flight::FixedWing>(m.airframe), out.all_up_mass_kg,
+                                               air ? air->density_kg_m3 : 1.225);
+    }
+    std::string why, field;
+    std::vector<std::string> ignored;
+    const auto setup = setup_stretch(m, hold, 0.0, out.all_up_mass_kg, why, field, ignored);
+    if (setup) {
+      const double floor_v = std::max(cutoff, m.reserve.v_load_cell_min_V.value_or(0.0));
+      auto ev = make_events(m, *setup, floor_v);
+      ev.resize(kEmpty + 1);  // terminal events only
+      SegmentOptions so;
+      so.t_end = t + std::max(10.0 * *m.reserve.hover_s, 600.0);
+      so.abs_tol = 1e-9;
+      so.rel_tol = 1e-9;
+      so.max_steps = opts.max_steps_per_phase;
+      const auto seg = run_segment(pm, setup->demand, t, x, ev, so);
+      out.reserve_time_s = seg.end.t - t;
+    }
+  }
+
+  // Rules at landing.
+  auto rule = [&](std::string name, std::string unit, double req, double act) {
+    out.rules.push_back({std::move(name), std::move(unit), req, act, act - req, act >= req});
+  };
+  rule("mission_flown", "s", planned_total, out.flight_time_s);
+  out.rules.back().pass = out.completed;
+  if (m.reserve.soc_min) rule("soc_min", "", *m.reserve.soc_min, out.completed ? out.landing.soc : 0.0);
+  if (m.reserve.hover_s) rule("hover_s", "s", *m.reserve.hover_s, out.completed ? out.reserve_time_s : 0.0);
+  if (m.reserve.v_rest_cell_min_V)
+    rule("v_rest_cell_min_V", "V", *m.reserve.v_rest_cell_min_V, out.completed ? out.landing.v_rest_cell_V : 0.0);
+  if (m.reserve.v_load_cell_min_V) rule("v_load_cell_min_V", "V", *m.reserve.v_load_cell_min_V, out.v_min_cell_V);
+  out.go = std::all_of(out.rules.begin(), out.rules.end(), [](const RuleCheck& r) { return r.pass; });
+  return out;
+}
+
+std::optional<std::size_t> spare_phase(const Mission& m) {
+  for (std::size_t i = 0; i < m.phases.size(); ++i)
+    if (m.phases[i].spare) return i;
+  for (std::size_t i = m.phases.size(); i-- > 0;)
+    if (m.phases[i].kind == Phase::Kind::hover || m.phases[i].kind == Phase::Kind::loiter) return i;
+  return std::nullopt;
+}
+
+Mission lengthened(const Mission& m, std::size_t i, double delta_s) {
+  Mission out = m;
+  Phase& p = out.phases.at(i);
+  const double base = planned_duration_s(m, i).value_or(0.0);
+  p.distance_m.reset();
+  p.duration_s = std::max(0.0, base + delta_s);
+  return out;
+}
+
+namespace {
+
+/// The smallest relative margin over the rules and the completion of the flight, and its name.
+/// Continuous across the boundary where a flight stops completing: a completed flight's
+/// completion margin is its closeness to the cutoff and to full duty, an incomplete one's is
+/// minus the fraction not flown.
+std::pair<double, std::string> smallest_margin(const Mission& m, const MissionResult& r) {
+  double best = kInf;
+  std::string name;
+  auto consider = [&](double v, const std::string& n) {
+    if (v < best) {
+      best = v;
+      name = n;
+    }
+  };
+  const double planned = r.rules.front().required;
+  if (!r.completed) {
+    consider(-(planned - r.flight_time_s) / std::max(planned, 1.0), r.end_kind);
+    return {best, name};
+  }
+  const double cutoff = m.pack.cell.v_cutoff_V;
+  consider((r.v_min_cell_V - cutoff) / cutoff, "cutoff_voltage");
+  double duty_max = 0.0;
+  for (const auto& p : r.phases) duty_max = std::max(duty_max, p.duty_max);
+  consider((m.drive.esc.duty_max - duty_max) / m.drive.esc.duty_max, "saturation");
+  for (const auto& rule : r.rules) {
+    if (rule.name == "mission_flown") continue;
+    const double scale = rule.name == "soc_min" ? 1.0 : rule.name == "hover_s" ? std::max(rule.required, 60.0)
+                                                                               : rule.required;
+    consider(rule.margin / scale, rule.name);
+  }
+  return {best, name};
+}
+
+}  // namespace
+
+SpareResult solve_spare(const Mission& m, const MissionResult& base) {
+  SpareResult out;
+  out.phase = spare_phase(m);
+  if (!out.phase) {
+    out.note = "no hover, loiter or phase marked spare to lengthen";
+    return out;
+  }
+  if (base.refused) {
+    out.note = "the mission cannot be flown as planned";
+    out.bounded = false;
+    return out;
+  }
+  const std::size_t i = *out.phase;
+  const double base_len = planned_duration_s(m, i).value_or(0.0);
+  auto f = [&](double delta) {
+    ++out.simulations;
+    return smallest_margin(m, simulate(lengthened(m, i, delta))).first;
+  };
+  const double f0 = smallest_margin(m, base).first;
+  double lo, hi, flo, fhi;
+  if (f0 >= 0.0) {
+    lo = 0.0;
+    flo = f0;
+    hi = std::max(60.0, 0.25 * base_len);
+    fhi = f(hi);
+    while (fhi >= 0.0) {
+      if (hi > 1e6) {
+        out.spare_s = hi;
+        out.note = "more than " + fixed(hi / 3600, 0) + " h";
+        return out;
+      }
+      lo = hi;
+      flo = fhi;
+      hi *= 2.0;
+      fhi = f(hi);
+    }
+  } else {
+    hi = 0.0;
+    fhi = f0;
+    lo = -base_len;
+    flo = f(lo);
+    if (flo < 0.0) {
+      out.spare_s = -base_len;
+      out.bounded = false;
+      out.binding_rule = smallest_margin(m, simulate(lengthened(m, i, lo))).second;
+      out.note = "the mission fails even without this phase";
+      return out;
+    }
+  }
+  const double root = find_root(f, lo, hi, flo, fhi, 0.05, 100).value_or(lo);
+  // Report the side of the bracket where every rule still holds.
+  out.spare_s = root;
+  out.binding_rule = smallest_margin(m, simulate(lengthened(m, i, root + 0.05))).second;
+  return out;
+}
+
+}  // namespace sortie::sim

@@ -1,0 +1,151 @@
+#pragma once
+/// Fly a whole mission phase by phase: the airframe's thrust need in the air of each phase, the
+/// drive's operating point for it, and the pack's Thevenin ODE under the bus power that point
+/// draws, P(V) = a + b·V (the ESC's switching loss grows with bus voltage). Events and reserve
+/// crossings are located on the dense output; the rules are checked at landing.
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "battery/pack.hpp"
+#include "flight/airframe.hpp"
+#include "flight/environment.hpp"
+#include "flight/mission.hpp"
+#include "propulsion/drive.hpp"
+#include "sim/segment.hpp"
+
+namespace sortie::sim {
+
+/// Everything one flight needs, loaded and validated.
+struct Mission {
+  std::string name;
+  flight::Airframe airframe;
+  propulsion::Drive drive;
+  battery::Pack pack;
+  double avionics_W = 0.0;  ///< avionics and payload electrical load, W
+  flight::Environment environment;
+  std::vector<flight::Phase> phases;
+  flight::Reserve reserve;
+};
+
+struct SimOptions {
+  double sample_s = 0.0;  ///< trace spacing, s (0: no trace)
+  /// Largest height change integrated with one air density in a climb or descent, m.
+  double max_height_step_m = 100.0;
+  std::size_t max_steps_per_phase = 100000;
+};
+
+struct PhaseSummary {
+  flight::Phase::Kind kind{};
+  std::string label;
+  double start_s = 0.0;
+  double duration_s = 0.0;       ///< as flown (shorter than planned when the flight ended in it)
+  double planned_s = 0.0;        ///< as planned
+  double distance_m = 0.0;       ///< over the ground
+  double height_start_m = 0.0, height_end_m = 0.0;
+  double airspeed_mps = 0.0;
+  double ground_speed_mps = 0.0; ///< cruise only
+  double heading_deg = 0.0;      ///< cruise only
+  double density_kg_m3 = 0.0;    ///< at the phase's middle height
+  double thrust_per_rotor_N = 0.0;
+  double shaft_W = 0.0;          ///< per rotor
+  double energy_Wh = 0.0;        ///< out of the pack
+  double charge_Ah = 0.0;
+  double v_min_cell_V = 0.0;     ///< lowest loaded cell voltage
+  double i_max_A = 0.0;          ///< highest pack current
+  double c_rate_max = 0.0;       ///< i_max / rated pack capacity (1/h)
+  double duty_mean = 0.0;        ///< time mean
+  double duty_max = 0.0;
+  double eta_mean = 0.0;         ///< shaft energy / drive energy (motor × ESC)
+  double eta_esc_mean = 0.0;     ///< motor input energy / drive energy
+  bool flown = false;            ///< reached its end
+};
+
+struct MissionEvent {
+  double t_s = 0.0;
+  std::string kind;
+  int phase = -1;  ///< index into the phases, -1 after landing
+  std::string detail;
+};
+
+struct RuleCheck {
+  std::string name;
+  std::string unit;
+  double required = 0.0;
+  double actual = 0.0;
+  double margin = 0.0;  ///< actual − required (in the rule's unit)
+  bool pass = false;
+};
+
+/// One trace row: the pack sample and what the drive did.
+struct TracePoint {
+  Sample s;
+  int phase = 0;
+  double duty = 0.0;
+  double thrust_N = 0.0;  ///< per rotor
+  double height_m = 0.0;
+};
+
+struct Landing {
+  double soc = 0.0;
+  double energy_Wh = 0.0;     ///< open-circuit energy left (S·Q·∫₀^SoC OCV), Wh
+  double v_rest_cell_V = 0.0; ///< relaxed: OCV(SoC) per cell
+  double v_load_cell_V = 0.0; ///< loaded at touchdown
+};
+
+struct MissionResult {
+  bool completed = false;       ///< every phase flown to its end
+  std::string end_kind;         ///< when not completed: cutoff_voltage | saturation | power_collapse | soc_floor | refused
+  std::string end_detail;
+  int end_phase = -1;
+  bool refused = false;         ///< a phase asks for something the airframe or drive cannot do
+  std::string refusal_field;    ///< for a refusal: the phase field at fault (e.g. airspeed_mps)
+  double flight_time_s = 0.0;
+  double pack_mass_kg = 0.0;
+  double all_up_mass_kg = 0.0;
+  double energy_Wh = 0.0, charge_Ah = 0.0;
+  double v_min_cell_V = 0.0;
+  double i_max_A = 0.0, c_rate_max = 0.0;
+  double duty_mean = 0.0;       ///< time mean over the flight
+  double eta_esc_mean = 0.0;    ///< energy-weighted over the flight
+  double eta_mean = 0.0;
+  Landing landing;
+  double reserve_time_s = 0.0;  ///< time on station left at landing (hover or loiter), s
+  std::vector<PhaseSummary> phases;
+  std::vector<MissionEvent> events;
+  std::vector<RuleCheck> rules;
+  bool go = false;
+  std::vector<TracePoint> trace;
+};
+
+/// One simulation of the whole mission.
+MissionResult simulate(const Mission& m, const SimOptions& opts = {});
+
+/// The phase the spare solve lengthens: the one marked spare, else the last hover or loiter.
+std::optional<std::size_t> spare_phase(const Mission& m);
+
+struct SpareResult {
+  std::optional<std::size_t> phase;  ///< none: nothing to lengthen
+  double spare_s = 0.0;              ///< + time that could be added, − time to cut
+  std::string binding_rule;          ///< the rule that limits it
+  bool bounded = true;               ///< false: even without the phase the mission fails
+  std::string note;
+  int simulations = 0;
+};
+
+/// How much longer the spare phase could last with every rule still met: the root of the
+/// smallest relative rule margin over whole-mission simulations (TOMS 748, to 0.05 s).
+SpareResult solve_spare(const Mission& m, const MissionResult& base);
+
+/// The mission with phase `i` lengthened (or shortened) by `delta_s` seconds of flight.
+Mission lengthened(const Mission& m, std::size_t i, double delta_s);
+
+/// Planned duration of a phase in this mission (climb/descend from heights, cruise from the
+/// wind triangle), s; nullopt when the leg cannot be flown.
+std::optional<double> planned_duration_s(const Mission& m, std::size_t i);
+
+/// Open-circuit energy between SoC 0 and `soc` of the pack, S·Q·∫OCV, Wh (exact for the
+/// piecewise-linear table).
+double stored_energy_Wh(const battery::Pack& p, double soc);
+
+}  // namespace sortie::sim
