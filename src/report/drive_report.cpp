@@ -231,8 +231,12 @@ std::string transposed_cases(const DriveResult& r) {
   line("system η %", [](C, O op) { return pct(op.bus.eta_system); });
   line("g/W", [](C, O op) { return fixed(op.bus.g_per_W, 2); });
   line("available N", [](C c, O) { return fixed(c.thrust_available_N, 2); });
-  line("status", [](C, O op) { return std::string(propulsion::to_string(op.bus.status)); });
-  return t.render();
+  // Status as a line of its own: a text row would turn the number columns left-aligned.
+  std::string status = "  status:";
+  for (const auto& c : r.cases)
+    status += " " + case_label(c) + " " + propulsion::to_string(c.rows.front().op.bus.status) +
+              (&c == &r.cases.back() ? "" : ",");
+  return t.render() + status + "\n";
 }
 
 }  // namespace
@@ -257,8 +261,13 @@ std::string drive_text(const DriveResult& r) {
       out += "\nat " + thrust_words(*r.thrust_N) + " per rotor, side by side\n";
       out += transposed_cases(r);
       for (const auto& c : r.cases) {
+        // Each note line of this case, led by the case's label ("  3S saturated: ...").
         const std::string notes = case_notes(d, c, false);
-        if (!notes.empty()) out += "  " + case_label(c) + ":\n" + notes;
+        for (std::size_t p = 0; p < notes.size();) {
+          const std::size_t e = notes.find('\n', p);
+          out += "  " + case_label(c) + " " + notes.substr(p + 2, e - p - 1);
+          p = e + 1;
+        }
       }
     } else {
       for (const auto& c : r.cases) {
