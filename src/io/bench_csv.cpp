@@ -110,8 +110,8 @@ HeaderParts split_header(const std::string& header) {
 }
 
 struct Found {
-  std::size_t col;
-  const Unit* unit;
+  std::size_t col = 0;
+  const Unit* unit = nullptr;
 };
 
 [[noreturn]] void header_fail(const CsvFile& csv, const std::string& what, const std::string& got,
@@ -243,7 +243,7 @@ propulsion::BenchMap read_bench_csv(const CsvFile& csv, const BenchColumns& colu
     if (auto f = locate(csv, q, columns)) at[q.name] = *f;
   const Found th = at.at("throttle"), vo = at.at("voltage"), cu = at.at("current"),
               rp = at.at("rpm"), tr = at.at("thrust");
-  const std::optional<Found> tq = at.count("torque") ? std::optional<Found>(at.at("torque")) : std::nullopt;
+  const Found* tq = at.count("torque") ? &at.at("torque") : nullptr;  // optional column
   const bool pulse = th.unit->factor == 0.0;
 
   std::vector<propulsion::BenchRow> rows;
