@@ -58,7 +58,7 @@ TEST_CASE("the demo airframes load") {
   const auto hexa = io::load_airframe_file(test::source_path("models/airframes/demo-hexa-10in-lifter.json"));
   REQUIRE(std::holds_alternative<flight::Multirotor>(hexa));
   CHECK(std::get<flight::Multirotor>(hexa).cda_vertical_m2 == 0.12);
-  CHECK(flight::all_up_mass_kg(hexa, 0.6) == doctest::Approx(2.8 + 1.0 + 0.6));
+  CHECK(flight::all_up_mass_kg(hexa, 0.6) == doctest::Approx(1.9 + 0.8 + 0.6));
 
   const auto wing = io::load_airframe_file(test::source_path("models/airframes/demo-fixed-wing-mapper.json"));
   REQUIRE(std::holds_alternative<flight::FixedWing>(wing));

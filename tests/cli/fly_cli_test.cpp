@@ -1,0 +1,152 @@
+// `sortie fly` and `sortie compare` end to end on the bundled demo profiles and on broken ones.
+#include <doctest/doctest.h>
+
+#include <nlohmann/json.hpp>
+
+#include "support/cli.hpp"
+
+using namespace sortie::test;
+using nlohmann::json;
+
+namespace {
+
+json demo_profile(const std::string& name) {
+  return json::parse(read_file(source_path("profiles/" + name)));
+}
+
+/// Write a profile into the work folder with its model paths made absolute.
+std::string write_profile(const std::string& tag, json p) {
+  for (const char* k : {"airframe", "drive", "pack"})
+    if (p.contains(k) && p[k].is_string() && p[k].get<std::string>()[0] != '/') p[k] = source_path("profiles/" + p[k].get<std::string>());
+  if (p["pack"].is_object() && p["pack"]["cell"].is_string())
+    p["pack"]["cell"] = source_path("profiles/" + p["pack"]["cell"].get<std::string>());
+  return write_work_file(tag + ".json", p.dump(2));
+}
+
+}  // namespace
+
+TEST_SUITE("cli") {
+
+TEST_CASE("fly: every demo profile runs and writes its JSON result") {
+  for (const char* name : {"demo-quad-water-tank.json", "demo-fixed-wing-field-survey.json",
+                           "demo-hexa-highland-sensor.json"}) {
+    CAPTURE(name);
+    const std::string out = work_path("fly.json");
+    const auto r = run_sortie({"fly", source_path(std::string("profiles/") + name), "--json", out});
+    CHECK((r.exit_code == 0 || r.exit_code == 3));
+    CHECK(r.out.find("reserve rules") != std::string::npos);
+    const json j = json::parse(read_file(out));
+    CHECK(j["schema"] == "sortie.fly/1");
+    CHECK((j["verdict"] == "go") == (r.exit_code == 0));
+    for (const char* k : {"flight_time_s", "spare_s"}) CHECK(j[k].is_number());
+    for (const char* k : {"soc", "energy_Wh", "v_rest_cell_V"}) CHECK(j["landing"][k].is_number());
+    REQUIRE(j["phases"].size() >= 3);
+    for (const auto& p : j["phases"])
+      for (const char* k : {"kind", "start_s", "duration_s", "energy_Wh", "charge_Ah", "v_min_cell_V", "i_max_A",
+                            "duty_mean", "duty_max", "eta_mean"})
+        CHECK(p.contains(k));
+    for (const auto& rule : j["rules"])
+      for (const char* k : {"name", "required", "actual", "margin", "pass"}) CHECK(rule.contains(k));
+    CHECK(j["events"].is_array());
+  }
+}
+
+TEST_CASE("fly: the quadcopter demo is a go, the hexacopter demo a no-go naming its failed rule") {
+  const auto go = run_sortie({"fly", source_path("profiles/demo-quad-water-tank.json")});
+  CHECK(go.exit_code == 0);
+  CHECK(go.out.find(">> GO") != std::string::npos);
+  const auto nogo = run_sortie({"fly", source_path("profiles/demo-hexa-highland-sensor.json"), "--json", "-"});
+  CHECK(nogo.exit_code == 3);
+  const json j = json::parse(nogo.out);
+  CHECK(j["verdict"] == "no-go");
+  bool named = false;
+  for (const auto& rule : j["rules"]) named = named || (!rule["pass"].get<bool>() && j["verdict_text"].get<std::string>().find("needs") != std::string::npos);
+  CHECK(named);
+  CHECK(j["spare_s"].get<double>() < 0);
+}
+
+TEST_CASE("fly: a lighter sensor turns the hexacopter no-go into a go") {
+  json af = json::parse(read_file(source_path("models/airframes/demo-hexa-10in-lifter.json")));
+  af["payload_kg"] = 0.3;
+  const std::string af_path = write_work_file("light-hexa.json", af.dump());
+  json p = demo_profile("demo-hexa-highland-sensor.json");
+  p["airframe"] = af_path;
+  const auto r = run_sortie({"fly", write_profile("light-hexa-profile", p), "--quiet"});
+  CHECK(r.exit_code == 0);
+  CHECK(r.out.empty());
+}
+
+TEST_CASE("fly: --pack replaces the profile's pack; --trace has the mission columns") {
+  const std::string tr = work_path("fly-trace.csv");
+  const auto r = run_sortie({"fly", source_path("profiles/demo-quad-water-tank.json"), "--pack",
+                             source_path("models/packs/demo-4s1p-lipo-5000.json"), "--trace", tr, "--json", "-"});
+  REQUIRE((r.exit_code == 0 || r.exit_code == 3));
+  CHECK(json::parse(r.out)["pack"]["layout"] == "4S1P");
+  const std::string csv = read_file(tr);
+  CHECK(csv.rfind("time_s,current_A,v_terminal_V,v_ocv_V,soc,power_W,phase,duty,thrust_N\n", 0) == 0);
+}
+
+TEST_CASE("fly: bad profiles are refused with a pointer and no output") {
+  struct Case {
+    std::string tag;
+    std::function<void(json&)> edit;
+    std::vector<std::string> fragments;
+  };
+  const std::vector<Case> cases = {
+      {"hover-wing", [](json& p) { p["phases"][13] = {{"kind", "hover"}, {"duration_s", 60}}; },
+       {"/phases/13/kind", "fixed-wing aircraft cannot hover"}},
+      {"stall", [](json& p) { p["phases"][1]["airspeed_mps"] = 7; }, {"/phases/1/airspeed_mps", "stall speed"}},
+      {"no-landing", [](json& p) { p["phases"].erase(p["phases"].size() - 1); }, {"/phases", "must end on the ground"}},
+      {"unknown-kind", [](json& p) { p["phases"][0]["kind"] = "clmb"; }, {"/phases/0/kind", "did you mean 'climb'"}},
+      {"two-spare", [](json& p) { p["phases"][1]["spare"] = true; }, {"/phases/13/spare", "more than one"}},
+      {"reserve", [](json& p) { p["reserve"]["soc_min"] = 1.5; }, {"/reserve/soc_min", "got 1.5"}},
+      {"headwind", [](json& p) { p["phases"][12]["airspeed_mps"] = 6.5; p["environment"]["wind"]["speed_mps"] = 8; },
+       {"/phases/12/airspeed_mps"}},
+  };
+  for (const auto& c : cases) {
+    CAPTURE(c.tag);
+    json p = demo_profile("demo-fixed-wing-field-survey.json");
+    c.edit(p);
+    const std::string out = work_path("bad-fly.json");
+    const auto r = run_sortie({"fly", write_profile("bad-" + c.tag, p), "--json", out});
+    CHECK(r.exit_code == 1);
+    CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+    for (const auto& f : c.fragments) CHECK_MESSAGE(r.err.find(f) != std::string::npos, r.err);
+    CHECK_FALSE(file_exists(out));
+  }
+}
+
+TEST_CASE("compare: packs ranked by spare time, heavier packs heavier aircraft") {
+  const auto r = run_sortie({"compare", source_path("profiles/demo-quad-water-tank.json"), "--series", "4,6",
+                             "--capacity-Ah", "3,5", "--json", "-"});
+  REQUIRE(r.exit_code == 0);
+  const json j = json::parse(r.out);
+  CHECK(j["schema"] == "sortie.compare/1");
+  REQUIRE(j["rows"].size() == 4);
+  double prev = 1e300;
+  bool go_seen_after_nogo = false, nogo = false;
+  for (const auto& row : j["rows"]) {
+    const bool go = row["verdict"] == "go";
+    if (!go) nogo = true;
+    if (go && nogo) go_seen_after_nogo = true;
+    if (go) {
+      CHECK(row["spare_s"].get<double>() <= prev);
+      prev = row["spare_s"].get<double>();
+    }
+    for (const char* k : {"pack_mass_kg", "all_up_mass_kg", "landing_soc", "c_rate_max", "duty_mean", "eta_esc_mean"})
+      CHECK(row[k].is_number());
+    CHECK(row["all_up_mass_kg"].get<double>() - row["pack_mass_kg"].get<double>() == doctest::Approx(1.9));
+  }
+  CHECK_FALSE(go_seen_after_nogo);
+}
+
+TEST_CASE("compare: pack files side by side") {
+  const auto r = run_sortie({"compare", source_path("profiles/demo-fixed-wing-field-survey.json"), "--pack",
+                             source_path("models/packs/demo-4s1p-lipo-5000.json"), "--pack",
+                             source_path("models/packs/demo-4s1p-lihv-2200.json")});
+  CHECK(r.exit_code == 0);
+  CHECK(r.out.find("demo 4S1P 2.2 Ah LiHV pack (invented)") != std::string::npos);
+  CHECK(run_sortie({"compare", source_path("profiles/demo-quad-water-tank.json")}).exit_code == 2);
+}
+
+}  // TEST_SUITE
