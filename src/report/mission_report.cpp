@@ -79,6 +79,11 @@ std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::S
                       (atm.isa_offset_K >= 0 ? "+" : "") + fixed(atm.isa_offset_K, 1) + " °C), wind " +
                       fixed(m.environment.wind.speed_mps, 1) + " m/s from " + fixed(m.environment.wind.from_deg, 0) + "°");
   if (m.avionics_W > 0) head.add("avionics", fixed(m.avionics_W, 1) + " W");
+  if (const auto& w = r.wing_speeds)
+    head.add("wing", "stall " + fixed(w->stall_mps, 1) + " m/s, minimum power " + fixed(w->min_power_mps, 1) +
+                         " m/s, best L/D " + fixed(w->min_drag_mps, 1) + " m/s (L/D " + fixed(w->ld_max, 1) +
+                         "), in level flight at the field" +
+                         (w->min_power_below_stall ? "; minimum power is below stall: loiter faster" : ""));
   out += head.render() + "\n";
   out += (r.go ? "  >> " : "  !! ") + verdict_line(m, r, s) + "\n\n";
 
@@ -152,6 +157,9 @@ nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim
   j["spare"] = {{"phase", s.phase ? json(*s.phase) : json()}, {"binding_rule", s.binding_rule},
                 {"bounded", s.bounded}, {"note", s.note}, {"simulations", s.simulations}};
   j["mass"] = {{"all_up_kg", r.all_up_mass_kg}, {"pack_kg", r.pack_mass_kg}};
+  if (const auto& w = r.wing_speeds)
+    j["wing_speeds"] = {{"stall_mps", w->stall_mps}, {"min_power_mps", w->min_power_mps},
+                        {"max_ld_mps", w->min_drag_mps}, {"ld_max", w->ld_max}};
   j["pack"] = {{"name", m.pack.name}, {"layout", m.pack.layout()}, {"series", m.pack.series},
                {"parallel", m.pack.parallel}, {"capacity_Ah", m.pack.capacity_Ah()}};
   j["energy_Wh"] = r.energy_Wh;
