@@ -5,19 +5,10 @@
 #include <cstdio>
 #include <numbers>
 
+#include "core/text.hpp"
 #include "flight/atmosphere.hpp"
 
 namespace sortie::flight {
-
-namespace {
-
-std::string fixed(double v, int decimals) {
-  char buf[48];
-  std::snprintf(buf, sizeof buf, "%.*f", decimals, v);
-  return buf;
-}
-
-}  // namespace
 
 double induced_drag_factor(const FixedWing& wing) {
   return 1.0 / (std::numbers::pi * wing.oswald_e * wing.aspect_ratio);
@@ -60,13 +51,13 @@ WingDemand fixed_wing_steady(const FixedWing& wing, double mass_kg, double densi
   d.axial_mps = V;
   if (!(V > 0.0)) {
     d.status = FlightStatus::below_stall;
-    d.detail = "a fixed wing cannot fly at airspeed " + fixed(V, 2) + " m/s (stall speed " +
-               fixed(d.stall_speed_mps, 2) + " m/s)";
+    d.detail = "a fixed wing cannot fly at airspeed " + format_fixed(V, 2) + " m/s (stall speed " +
+               format_fixed(d.stall_speed_mps, 2) + " m/s)";
     return d;
   }
   if (!(std::fabs(Vz) < V)) {
     d.status = FlightStatus::climb_too_steep;
-    d.detail = "vertical rate " + fixed(Vz, 2) + " m/s is not below the airspeed " + fixed(V, 2) +
+    d.detail = "vertical rate " + format_fixed(Vz, 2) + " m/s is not below the airspeed " + format_fixed(V, 2) +
                " m/s: no flight path has that slope";
     return d;
   }
@@ -76,9 +67,9 @@ WingDemand fixed_wing_steady(const FixedWing& wing, double mass_kg, double densi
   d.cl = d.lift_N / (d.q_Pa * S);                 // CL = L/(qS)
   if (d.cl > wing.cl_max) {
     d.status = FlightStatus::below_stall;
-    d.detail = "airspeed " + fixed(V, 2) + " m/s is below the stall speed " +
-               fixed(d.stall_speed_mps, 2) + " m/s (needs CL " + fixed(d.cl, 2) + ", cl_max " +
-               fixed(wing.cl_max, 2) + ")";
+    d.detail = "airspeed " + format_fixed(V, 2) + " m/s is below the stall speed " +
+               format_fixed(d.stall_speed_mps, 2) + " m/s (needs CL " + format_fixed(d.cl, 2) + ", cl_max " +
+               format_fixed(wing.cl_max, 2) + ")";
     return d;
   }
   d.cd = wing.cd0 + induced_drag_factor(wing) * d.cl * d.cl;  // CD = CD0 + CL²/(π·e·AR)
@@ -87,8 +78,8 @@ WingDemand fixed_wing_steady(const FixedWing& wing, double mass_kg, double densi
   const double thrust = d.drag_N + d.weight_N * std::sin(d.gamma_rad);  // T = D + W·sin γ
   if (thrust <= 0.0) {
     d.status = FlightStatus::no_thrust_needed;
-    d.detail = "sinking at " + fixed(-Vz, 2) + " m/s at airspeed " + fixed(V, 2) +
-               " m/s is steeper than the glide (it needs " + fixed(thrust, 2) +
+    d.detail = "sinking at " + format_fixed(-Vz, 2) + " m/s at airspeed " + format_fixed(V, 2) +
+               " m/s is steeper than the glide (it needs " + format_fixed(thrust, 2) +
                " N of thrust): thrust taken as 0";
     d.thrust_N = 0.0;
   } else {

@@ -7,19 +7,10 @@
 
 #include "core/error.hpp"
 #include "core/roots.hpp"
+#include "core/text.hpp"
 #include "flight/atmosphere.hpp"
 
 namespace sortie::flight {
-
-namespace {
-
-std::string fixed(double v, int decimals) {
-  char buf[48];
-  std::snprintf(buf, sizeof buf, "%.*f", decimals, v);
-  return buf;
-}
-
-}  // namespace
 
 const char* to_string(RotorFlow f) {
   switch (f) {
@@ -87,8 +78,8 @@ RotorDemand multirotor_steady(const Multirotor& frame, double mass_kg, double de
   const double tz = d.weight_N + d.drag_vertical_N;
   if (!(tz > 0.0)) {
     d.status = FlightStatus::descent_too_fast;
-    d.detail = "descent at " + fixed(-Vz, 2) + " m/s: vertical drag " + fixed(-d.drag_vertical_N, 2) +
-               " N is above the weight " + fixed(d.weight_N, 2) +
+    d.detail = "descent at " + format_fixed(-Vz, 2) + " m/s: vertical drag " + format_fixed(-d.drag_vertical_N, 2) +
+               " N is above the weight " + format_fixed(d.weight_N, 2) +
                " N (the frame would fall slower than that)";
     return d;
   }
@@ -110,8 +101,8 @@ RotorDemand multirotor_steady(const Multirotor& frame, double mass_kg, double de
   d.ideal_power_per_rotor_W = d.thrust_per_rotor_N * (d.axial_mps + d.induced_mps);
   if (in.flow == RotorFlow::vortex_ring) {
     d.status = FlightStatus::vortex_ring;
-    d.detail = "axial inflow " + fixed(d.axial_mps, 2) + " m/s is inside the vortex-ring band (" +
-               fixed(-2.0 * d.hover_induced_mps, 2) +
+    d.detail = "axial inflow " + format_fixed(d.axial_mps, 2) + " m/s is inside the vortex-ring band (" +
+               format_fixed(-2.0 * d.hover_induced_mps, 2) +
                " to 0 m/s, from twice the hover induced velocity): momentum theory does not hold, "
                "the power estimate is uncertain and the rotor may lose thrust";
   }

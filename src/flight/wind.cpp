@@ -4,17 +4,13 @@
 #include <cstdio>
 #include <numbers>
 
+#include "core/text.hpp"
+
 namespace sortie::flight {
 
 namespace {
 
 constexpr double kDegToRad = std::numbers::pi / 180.0;
-
-std::string fixed(double v, int decimals) {
-  char buf[48];
-  std::snprintf(buf, sizeof buf, "%.*f", decimals, v);
-  return buf;
-}
 
 }  // namespace
 
@@ -42,8 +38,8 @@ Leg solve_leg(const Wind& wind, double track_deg, double airspeed_mps) {
   leg.cross_mps = c.cross_mps;
   if (!(std::fabs(c.cross_mps) < airspeed_mps)) {
     leg.status = LegStatus::crosswind_too_strong;
-    leg.detail = "crosswind " + fixed(std::fabs(c.cross_mps), 2) + " m/s on track " +
-                 fixed(track_deg, 0) + " deg is not below the airspeed " + fixed(airspeed_mps, 2) +
+    leg.detail = "crosswind " + format_fixed(std::fabs(c.cross_mps), 2) + " m/s on track " +
+                 format_fixed(track_deg, 0) + " deg is not below the airspeed " + format_fixed(airspeed_mps, 2) +
                  " m/s: no heading holds the track";
     return leg;
   }
@@ -56,9 +52,9 @@ Leg solve_leg(const Wind& wind, double track_deg, double airspeed_mps) {
   const double gs = airspeed_mps * std::cos(beta) - c.head_mps;
   if (!(gs > 0.0)) {
     leg.status = LegStatus::no_progress;
-    leg.detail = "headwind " + fixed(c.head_mps, 2) + " m/s on track " + fixed(track_deg, 0) +
-                 " deg leaves no ground speed at airspeed " + fixed(airspeed_mps, 2) + " m/s (ground speed " +
-                 fixed(gs, 2) + " m/s)";
+    leg.detail = "headwind " + format_fixed(c.head_mps, 2) + " m/s on track " + format_fixed(track_deg, 0) +
+                 " deg leaves no ground speed at airspeed " + format_fixed(airspeed_mps, 2) + " m/s (ground speed " +
+                 format_fixed(gs, 2) + " m/s)";
     return leg;
   }
   leg.ground_speed_mps = gs;

@@ -6,6 +6,7 @@
 
 #include "core/error.hpp"
 #include "core/suggest.hpp"
+#include "core/text.hpp"
 #include "io/json_reader.hpp"
 
 namespace sortie::io {
@@ -54,18 +55,6 @@ const std::vector<Quantity>& quantities() {
   return q;
 }
 
-std::string trim(std::string s) {
-  auto not_space = [](unsigned char c) { return !std::isspace(c); };
-  s.erase(s.begin(), std::find_if(s.begin(), s.end(), not_space));
-  s.erase(std::find_if(s.rbegin(), s.rend(), not_space).base(), s.end());
-  return s;
-}
-
-std::string lower(std::string s) {
-  for (char& c : s) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-  return s;
-}
-
 const Quantity& quantity(const std::string& name) {
   for (const auto& q : quantities())
     if (q.name == name) return q;
@@ -73,7 +62,7 @@ const Quantity& quantity(const std::string& name) {
 }
 
 const Unit* find_unit(const Quantity& q, const std::string& unit) {
-  const std::string u = lower(trim(unit));
+  const std::string u = to_lower(trim(unit));
   for (const auto& un : q.units)
     if (std::find(un.names.begin(), un.names.end(), u) != un.names.end()) return &un;
   return nullptr;
@@ -96,7 +85,7 @@ struct HeaderParts {
   std::string base, unit;
 };
 HeaderParts split_header(const std::string& header) {
-  const std::string h = lower(trim(header));
+  const std::string h = to_lower(trim(header));
   for (auto [open, close] : {std::pair{'(', ')'}, std::pair{'[', ']'}}) {
     if (!h.empty() && h.back() == close) {
       const auto p = h.rfind(open);
@@ -135,7 +124,7 @@ std::optional<Found> locate(const CsvFile& csv, const Quantity& q, const BenchCo
                   header_text(csv), "a column named '" + bc.header + "'");
     std::string unit = bc.unit;
     if (unit.empty()) unit = split_header(csv.header[*col]).unit;
-    if (unit.empty() && q.name == "rpm" && has_base(q, lower(trim(bc.header)))) unit = "rpm";
+    if (unit.empty() && q.name == "rpm" && has_base(q, to_lower(trim(bc.header)))) unit = "rpm";
     if (unit.empty())
       header_fail(csv, "column '" + csv.header[*col] + "' declares no unit for " + q.what, "",
                   "--columns " + q.name + "=" + bc.header + ":UNIT with UNIT one of " + unit_list(q));
@@ -210,7 +199,7 @@ BenchColumns parse_bench_columns(const std::string& spec) {
     if (eq == std::string::npos)
       throw UsageError("--columns: entry without '=' (got \"" + item +
                        "\", expected quantity=HEADER or quantity=HEADER:UNIT)");
-    const std::string qn = lower(trim(item.substr(0, eq)));
+    const std::string qn = to_lower(trim(item.substr(0, eq)));
     std::string header = trim(item.substr(eq + 1));
     const auto& names = bench_quantities();
     if (std::find(names.begin(), names.end(), qn) == names.end()) {

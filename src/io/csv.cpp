@@ -8,23 +8,12 @@
 #include <sstream>
 
 #include "core/error.hpp"
+#include "core/text.hpp"
 #include "io/json_reader.hpp"
 
 namespace sortie::io {
 
 namespace {
-
-std::string trim(std::string s) {
-  auto not_space = [](unsigned char c) { return !std::isspace(c); };
-  s.erase(s.begin(), std::find_if(s.begin(), s.end(), not_space));
-  s.erase(std::find_if(s.rbegin(), s.rend(), not_space).base(), s.end());
-  return s;
-}
-
-std::string lower(std::string s) {
-  for (char& c : s) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-  return s;
-}
 
 const std::string kEmpty;
 
@@ -102,7 +91,7 @@ CsvFile read_csv(const std::filesystem::path& path, bool has_header) {
 std::optional<std::size_t> CsvFile::find_column(const std::vector<std::string>& names) const {
   for (const auto& want : names)
     for (std::size_t i = 0; i < header.size(); ++i)
-      if (lower(trim(header[i])) == lower(want)) return i;
+      if (to_lower(trim(header[i])) == to_lower(want)) return i;
   return std::nullopt;
 }
 

@@ -1,5 +1,7 @@
 #include "report/text_table.hpp"
 
+#include "core/text.hpp"
+
 #include <algorithm>
 #include <cmath>
 #include <regex>
@@ -7,15 +9,7 @@
 
 namespace sortie::report {
 
-std::string fixed(double v, int digits) {
-  if (std::isnan(v)) return "-";
-  if (std::isinf(v)) return v > 0 ? "inf" : "-inf";
-  char buf[64];
-  std::snprintf(buf, sizeof buf, "%.*f", digits, v);
-  std::string s = buf;
-  if (s.find_first_not_of("-0.") == std::string::npos && s[0] == '-') s.erase(0, 1);  // no "-0.0"
-  return s;
-}
+std::string fixed(double v, int digits) { return format_fixed(v, digits); }
 
 std::size_t display_width(const std::string& s) {
   std::size_t n = 0;
