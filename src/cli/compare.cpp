@@ -5,11 +5,14 @@
 #include <iostream>
 
 #include "cli/commands.hpp"
+#include "cli/report_output.hpp"
 #include "core/error.hpp"
 #include "io/battery_json.hpp"
 #include "io/output.hpp"
 #include "io/profile_json.hpp"
 #include "report/compare_report.hpp"
+#include "report/html_compare.hpp"
+#include "report/result_csv.hpp"
 #include "sim/compare.hpp"
 
 namespace sortie::cli {
@@ -22,6 +25,7 @@ struct CompareOptions {
   std::vector<int> series, parallel{1};
   std::vector<double> capacity_Ah;
   bool quiet = false;
+  ReportOutput report;
 };
 
 /// A progress bar on stderr, only when stderr is a terminal.
@@ -37,6 +41,7 @@ void progress_bar(std::size_t done, std::size_t total) {
 }
 
 int run_compare(const CompareOptions& o) {
+  const bool print = print_format(o.report, {{"--json", &o.json_file}}, o.quiet);
   const io::LoadedProfile lp = io::load_profile_file(o.profile);
   std::vector<sim::PackCandidate> cands;
   if (!o.packs.empty()) {
@@ -49,8 +54,12 @@ int run_compare(const CompareOptions& o) {
     cands = sim::pack_grid(cell, lp.mission.pack, o.series, o.capacity_Ah, o.parallel);
   }
   const auto rows = sim::compare_packs(lp.mission, cands, progress_bar);
+  const std::string html = o.report.html_file.empty() ? "" : report::compare_html(lp.mission, rows);
   if (!o.json_file.empty()) io::write_output(o.json_file, report::compare_json(lp.mission, rows).dump(2) + "\n");
-  if (!o.quiet && o.json_file != "-") std::cout << report::compare_text(lp.mission, rows);
+  if (!o.report.html_file.empty()) io::write_output(o.report.html_file, html);
+  if (print && o.report.format == "json") std::cout << report::compare_json(lp.mission, rows).dump(2) << "\n";
+  if (print && o.report.format == "csv") std::cout << report::compare_csv(rows);
+  if (print && o.report.format == "text") std::cout << report::compare_text(lp.mission, rows);
   return 0;
 }
 
@@ -71,6 +80,7 @@ void add_compare_command(CLI::App& app, int& exit_code) {
       ->check(CLI::ExistingFile);
   pk->excludes(se)->excludes(ca);
   c->add_option("--json", o->json_file, "write the ranked rows as JSON to FILE, or - for standard output");
+  add_report_options(c, o->report, {"text", "json", "csv"});
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
   c->callback([o, &exit_code] {
     if (o->packs.empty() && (o->series.empty() || o->capacity_Ah.empty()))

@@ -3,11 +3,13 @@
 #include <optional>
 
 #include "cli/commands.hpp"
+#include "cli/report_output.hpp"
 #include "core/error.hpp"
 #include "io/battery_json.hpp"
 #include "io/load_csv.hpp"
 #include "io/output.hpp"
 #include "report/discharge_report.hpp"
+#include "report/html_discharge.hpp"
 #include "report/text_table.hpp"
 #include "sim/discharge.hpp"
 
@@ -25,9 +27,11 @@ struct DischargeOptions {
   double sample_s = 1.0;
   std::string json_file, trace_file;
   bool quiet = false;
+  ReportOutput report;
 };
 
 int run_discharge(const DischargeOptions& o) {
+  const bool print = print_format(o.report, {{"--json", &o.json_file}, {"--trace", &o.trace_file}}, o.quiet);
   battery::Pack pack = io::load_pack_file(o.pack_file);
   if (o.soc0) pack.soc0 = *o.soc0;
   if (o.temperature_C) pack.temperature_C = *o.temperature_C;
@@ -38,7 +42,7 @@ int run_discharge(const DischargeOptions& o) {
                      format_number(spec.cutoff_cell_V) + " V, expected below " +
                      format_number(pack.cell.v_max_V) + " V)");
   spec.soc_floor = o.soc_floor;
-  spec.sample_s = o.trace_file.empty() ? 0.0 : o.sample_s;
+  spec.sample_s = o.trace_file.empty() && o.report.html_file.empty() && o.report.format != "csv" ? 0.0 : o.sample_s;
   std::string label;
   if (o.current_A) {
     spec.load = sim::DischargeSpec::Load::current;
@@ -57,10 +61,14 @@ int run_discharge(const DischargeOptions& o) {
   }
   const sim::DischargeResult r = sim::discharge(pack, spec);
 
+  const std::string html = o.report.html_file.empty() ? "" : report::discharge_html(pack, label, spec, r);
   if (!o.json_file.empty())
     io::write_output(o.json_file, report::discharge_json(pack, label, r).dump(2) + "\n");
   if (!o.trace_file.empty()) io::write_output(o.trace_file, report::discharge_trace_csv(r));
-  if (!o.quiet && o.json_file != "-") std::cout << report::discharge_text(pack, label, r);
+  if (!o.report.html_file.empty()) io::write_output(o.report.html_file, html);
+  if (print && o.report.format == "json") std::cout << report::discharge_json(pack, label, r).dump(2) << "\n";
+  if (print && o.report.format == "csv") std::cout << report::discharge_trace_csv(r);
+  if (print && o.report.format == "text") std::cout << report::discharge_text(pack, label, r);
   return 0;
 }
 
@@ -88,7 +96,8 @@ void add_discharge_command(CLI::App& app, int& exit_code) {
       ->check(CLI::Range(-60.0, 100.0));
   c->add_option("--json", o->json_file, "write the result as JSON to FILE, or - for standard output");
   c->add_option("--trace", o->trace_file, "write a CSV trace to FILE");
-  c->add_option("--sample-s", o->sample_s, "trace spacing, s (default 1)")->check(CLI::Range(1e-3, 1e6));
+  add_report_options(c, o->report, {"text", "json", "csv"});
+  c->add_option("--sample-s", o->sample_s, "trace spacing, s, for --trace, --html and --format csv (default 1)")->check(CLI::Range(1e-3, 1e6));
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
   c->callback([o, c, &exit_code] {
     if (!o->power_W && !o->current_A && o->load_file.empty())

@@ -5,6 +5,7 @@
 #include <optional>
 
 #include "cli/commands.hpp"
+#include "cli/report_output.hpp"
 #include "core/error.hpp"
 #include "flight/atmosphere.hpp"
 #include "io/bench_csv.hpp"
@@ -12,6 +13,8 @@
 #include "io/output.hpp"
 #include "propulsion/operating_point.hpp"
 #include "report/drive_report.hpp"
+#include "report/html_drive.hpp"
+#include "report/result_csv.hpp"
 
 namespace sortie::cli {
 
@@ -30,6 +33,7 @@ struct DriveOptions {
   std::string bench_file, columns;
   std::string json_file;
   bool quiet = false;
+  ReportOutput report;
 };
 
 // Throttle steps from..to inclusive (to within a millionth of a step, so 10:100:5 ends at 100).
@@ -58,6 +62,7 @@ report::DriveCase run_case(const propulsion::Drive& d, const DriveOptions& o, do
 }
 
 int run_drive(const DriveOptions& o) {
+  const bool print = print_format(o.report, {{"--json", &o.json_file}}, o.quiet);
   report::DriveResult r;
   r.v_axial_mps = o.airspeed_mps;
   r.thrust_N = o.thrust_N;
@@ -97,8 +102,12 @@ int run_drive(const DriveOptions& o) {
     bv.map = std::move(*map);
     r.bench = std::move(bv);
   }
+  const std::string html = o.report.html_file.empty() ? "" : report::drive_html(r);
   if (!o.json_file.empty()) io::write_output(o.json_file, report::drive_json(r).dump(2) + "\n");
-  if (!o.quiet && o.json_file != "-") std::cout << report::drive_text(r);
+  if (!o.report.html_file.empty()) io::write_output(o.report.html_file, html);
+  if (print && o.report.format == "json") std::cout << report::drive_json(r).dump(2) << "\n";
+  if (print && o.report.format == "csv") std::cout << report::drive_csv(r);
+  if (print && o.report.format == "text") std::cout << report::drive_text(r);
   return 0;
 }
 
@@ -132,6 +141,7 @@ void add_drive_command(CLI::App& app, int& exit_code) {
   c->add_option("--columns", o->columns, "bench CSV columns: quantity=HEADER[:UNIT],... (throttle, voltage, current, rpm, thrust, torque)")
       ->needs(bench);
   c->add_option("--json", o->json_file, "write the result as JSON to FILE, or - for standard output");
+  add_report_options(c, o->report, {"text", "json", "csv"});
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
   c->callback([o, &exit_code] {
     if (o->drive_file.empty() && o->bench_file.empty())

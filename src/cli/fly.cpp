@@ -2,11 +2,14 @@
 #include <iostream>
 
 #include "cli/commands.hpp"
+#include "cli/report_output.hpp"
 #include "cli/run.hpp"
 #include "core/error.hpp"
 #include "io/output.hpp"
 #include "io/profile_json.hpp"
+#include "report/html_fly.hpp"
 #include "report/mission_report.hpp"
+#include "report/result_csv.hpp"
 #include "sim/mission.hpp"
 
 namespace sortie::cli {
@@ -17,19 +20,26 @@ struct FlyOptions {
   std::string profile, pack, json_file, trace_file;
   double sample_s = 1.0;
   bool quiet = false;
+  ReportOutput report;
 };
 
 int run_fly(const FlyOptions& o) {
+  const bool print = print_format(o.report, {{"--json", &o.json_file}, {"--trace", &o.trace_file}}, o.quiet);
   const io::LoadedProfile lp = io::load_profile_file(o.profile, o.pack);
   sim::SimOptions so;
-  so.sample_s = o.trace_file.empty() ? 0.0 : o.sample_s;
+  so.sample_s = o.trace_file.empty() && o.report.html_file.empty() ? 0.0 : o.sample_s;
   const sim::MissionResult r = sim::simulate(lp.mission, so);
   if (r.refused) throw InputError(io::refusal_message(lp, r));
   const sim::SpareResult spare = sim::solve_spare(lp.mission, r);
+  // Every output is made before the first is written.
+  const std::string html = o.report.html_file.empty() ? "" : report::fly_html(lp.mission, r, spare);
   if (!o.json_file.empty())
     io::write_output(o.json_file, report::fly_json(lp.mission, r, spare).dump(2) + "\n");
   if (!o.trace_file.empty()) io::write_output(o.trace_file, report::fly_trace_csv(r));
-  if (!o.quiet && o.json_file != "-") std::cout << report::fly_text(lp.mission, r, spare);
+  if (!o.report.html_file.empty()) io::write_output(o.report.html_file, html);
+  if (print && o.report.format == "json") std::cout << report::fly_json(lp.mission, r, spare).dump(2) << "\n";
+  if (print && o.report.format == "csv") std::cout << report::fly_phases_csv(lp.mission, r);
+  if (print && o.report.format == "text") std::cout << report::fly_text(lp.mission, r, spare);
   return r.go ? kExitOk : kExitNoGo;
 }
 
@@ -42,7 +52,8 @@ void add_fly_command(CLI::App& app, int& exit_code) {
   c->add_option("--pack", o->pack, "use this pack file instead of the profile's pack")->check(CLI::ExistingFile);
   c->add_option("--json", o->json_file, "write the result as JSON to FILE, or - for standard output");
   c->add_option("--trace", o->trace_file, "write a CSV trace to FILE");
-  c->add_option("--sample-s", o->sample_s, "trace spacing, s (default 1)")->check(CLI::Range(1e-3, 1e6));
+  add_report_options(c, o->report, {"text", "json", "csv"});
+  c->add_option("--sample-s", o->sample_s, "trace spacing, s, for --trace and --html (default 1)")->check(CLI::Range(1e-3, 1e6));
   c->add_flag("--quiet,-q", o->quiet, "print nothing; the exit code tells go (0) or no-go (3)");
   c->callback([o, &exit_code] { exit_code = run_fly(*o); });
 }
