@@ -1,10 +1,11 @@
 #!/usr/bin/env bash
 # Install the Debian packages sortie needs, only those missing. Works as root, or through sudo.
-# Usage: scripts/install-deps.sh [--test]   (--test adds what the test suite needs)
+# Usage: scripts/install-deps.sh [--test]   (--test adds what the test suite needs: doctest, and
+# Debian's chromium for the headless browser check of the HTML reports, ctest -L browser)
 set -euo pipefail
 pkgs=(g++ cmake make libboost-dev libeigen3-dev libcli11-dev nlohmann-json3-dev)
 if [[ "${1:-}" == "--test" ]]; then
-  pkgs+=(doctest-dev)
+  pkgs+=(doctest-dev chromium)
 fi
 missing=()
 for p in "${pkgs[@]}"; do
