@@ -1,0 +1,84 @@
+#pragma once
+/// `fit cell`: a Thevenin cell model (battery::Cell) from a test log.
+///
+/// Steps (each in its own header):
+///  1. SoC by Coulomb counting from full/empty points; capacity from a full discharge (fit/soc).
+///  2. R0 first guess from the voltage step at current steps, R0 = −ΔV/ΔI (fit/rc_fit).
+///  3. OCV from rest ends, first with the step R0 only (fit/ocv).
+///  4. Constant R0, R_p, τ_p by Levenberg–Marquardt from several starting τ (fit/rc_fit).
+///  5. Tables over SoC bands, started from the constants; then OCV rebuilt from rest ends and
+///     low-rate loaded rows corrected by the model's drop, and the tables refitted (twice).
+///  6. Per band: standard errors from the Gauss–Newton covariance σ²·(JᵀJ)⁻¹; bands without a
+///     current step or with loose estimates are reported as having too little excitation. When
+///     fewer than two bands are excited the constants are written instead of tables.
+#include <array>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "battery/cell.hpp"
+#include "fit/cell_log.hpp"
+#include "fit/levenberg_marquardt.hpp"
+#include "fit/soc.hpp"
+
+namespace sortie::fit {
+
+struct CellFitOptions {
+  int rc_pairs = 2;            ///< 1 or 2
+  SocOptions soc;              ///< capacity, soc0, v_max, v_cutoff
+  double soc_band = 0.1;       ///< spacing of the SoC knots of R0, R_p, τ_p
+  double rest_min_s = 300.0;   ///< shortest rest whose end is taken as an OCV point, s
+  double low_rate_C = 0.6;     ///< loaded rows at or below this C-rate inform the OCV (C/2 tests pass)
+  std::string name;            ///< default: "cell fitted from <file>"
+  std::string chemistry;
+  std::optional<double> mass_kg;
+  std::optional<double> i_cont_max_A;
+  int max_iterations = 200;    ///< per Levenberg–Marquardt run
+};
+
+/// The fit in one SoC band (a knot and half the spacing either side).
+struct BandFit {
+  double soc = 0.0, soc_lo = 0.0, soc_hi = 0.0;
+  double r0_ohm = 0.0;
+  std::array<double, 2> r_ohm{0.0, 0.0};
+  std::array<double, 2> tau_s{0.0, 0.0};
+  double r0_step_ohm = 0.0;   ///< median −ΔV/ΔI of the band's current steps (NaN: none)
+  std::size_t steps = 0;      ///< current steps in the band
+  std::size_t rows = 0;       ///< log rows in the band
+  double se_r0 = 0.0;         ///< relative standard errors (from log-parameter variances)
+  std::array<double, 2> se_r{0.0, 0.0};
+  std::array<double, 2> se_tau{0.0, 0.0};
+  bool excited = true;
+  std::string why;            ///< when not excited
+};
+
+struct CellFitResult {
+  battery::Cell cell;
+  std::string note;           ///< for the model file
+  // The log.
+  std::size_t rows = 0, sections = 0;
+  double duration_s = 0.0, dt_min_s = 0.0, dt_max_s = 0.0;
+  double temperature_mean_C = 0.0, temperature_min_C = 0.0, temperature_max_C = 0.0;
+  bool has_temperature = false;
+  std::vector<double> soc;    ///< per row
+  SocEstimate soc_estimate;
+  // OCV.
+  std::size_t rests = 0, ocv_rest_points = 0, ocv_loaded_points = 0;
+  // Parameters.
+  std::size_t steps = 0;
+  int n_rc = 2;
+  bool tables = false;        ///< SoC-dependent tables written
+  bool tau_tables = false;    ///< the time constants too (else one per pair)
+  std::vector<BandFit> bands;
+  int iterations = 0;         ///< Levenberg–Marquardt steps in all
+  LmStatus status = LmStatus::converged;
+  double fit_rmse_V = 0.0;    ///< of the fit's own recurrence over the rows used
+  std::vector<std::string> notes;
+  std::vector<std::string> warnings;
+};
+
+/// Throws InputError for a log that cannot give a model (all-zero current, a current that never
+/// changes, no known SoC point, no OCV information), naming the file and what is missing.
+CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts);
+
+}  // namespace sortie::fit
