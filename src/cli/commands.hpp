@@ -6,6 +6,7 @@
 namespace sortie::cli {
 
 void add_discharge_command(CLI::App& app, int& exit_code);
+void add_fit_command(CLI::App& app, int& exit_code);
 void add_drive_command(CLI::App& app, int& exit_code);
 void add_fly_command(CLI::App& app, int& exit_code);
 void add_compare_command(CLI::App& app, int& exit_code);

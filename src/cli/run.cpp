@@ -14,6 +14,7 @@ int run(int argc, char** argv) {
   app.require_subcommand(1);
   int exit_code = kExitOk;
   add_discharge_command(app, exit_code);
+  add_fit_command(app, exit_code);
   add_drive_command(app, exit_code);
   add_fly_command(app, exit_code);
   add_compare_command(app, exit_code);

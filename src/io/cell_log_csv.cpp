@@ -422,6 +422,8 @@ fit::CellLog read_cell_log(const DelimitedFile& f, const CellLogOptions& opts) {
     sign = *opts.discharge_positive ? 1.0 : -1.0;
     log.notes.push_back(std::string("current sign: positive on ") +
                         (*opts.discharge_positive ? "discharge" : "charge") + " (as given)");
+  } else if (std::all_of(log.current_A.begin(), log.current_A.end(), [](double i) { return i == 0.0; })) {
+    log.notes.push_back("current sign: nothing to detect (the current is zero in every row)");
   } else {
     // A current step ΔI moves the terminal voltage by −ΔI·R0 when I is discharge positive, so
     // Σ ΔV·ΔI over the larger steps is negative (Thevenin model; common practice).

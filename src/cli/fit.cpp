@@ -1,0 +1,144 @@
+// `sortie fit cell LOG.csv --out CELL.json` and `sortie fit drive BENCH.csv --out DRIVE.json`:
+// models from the user's own measurements.
+#include <filesystem>
+#include <iostream>
+#include <optional>
+
+#include "cli/commands.hpp"
+#include "core/error.hpp"
+#include "fit/fit_cell.hpp"
+#include "fit/voltage_error.hpp"
+#include "io/battery_json.hpp"
+#include "io/cell_json_write.hpp"
+#include "io/cell_log_csv.hpp"
+#include "io/json_reader.hpp"
+#include "io/output.hpp"
+#include "report/fit_report.hpp"
+#include "sim/replay.hpp"
+
+namespace sortie::cli {
+
+namespace {
+
+struct FitCellOptions {
+  std::string log_file, out_file, columns;
+  bool discharge_positive = false, discharge_negative = false;
+  std::optional<double> capacity_Ah, soc0, v_max_V, v_cutoff_V, mass_kg, i_cont_max_A;
+  int rc = 2;
+  int series = 1, parallel = 1;
+  double soc_band = 0.1, rest_min_s = 300.0;
+  std::string name, chemistry;
+  std::string report_file, json_file, trace_file;
+  bool quiet = false;
+};
+
+/// The model as written, read back through the loader: what the user gets is what was checked.
+battery::Cell reload(const nlohmann::ordered_json& j, const std::string& out_file) {
+  const nlohmann::json plain = nlohmann::json::parse(j.dump());
+  const std::filesystem::path p(out_file);
+  io::ObjectReader r(plain, io::Source{out_file, p.parent_path()}, "");
+  return io::read_cell(r);
+}
+
+int run_fit_cell(const FitCellOptions& o) {
+  io::CellLogOptions lo;
+  if (!o.columns.empty()) lo.columns = io::parse_column_spec(o.columns, io::cell_log_quantities());
+  if (o.discharge_positive) lo.discharge_positive = true;
+  if (o.discharge_negative) lo.discharge_positive = false;
+  lo.series = o.series;
+  lo.parallel = o.parallel;
+  lo.capacity_Ah = o.capacity_Ah;
+  const fit::CellLog log = io::load_cell_log(o.log_file, lo);
+
+  fit::CellFitOptions fo;
+  fo.rc_pairs = o.rc;
+  fo.soc.capacity_Ah = o.capacity_Ah;
+  fo.soc.soc0 = o.soc0;
+  fo.soc.v_max_V = o.v_max_V;
+  fo.soc.v_cutoff_V = o.v_cutoff_V;
+  fo.soc_band = o.soc_band;
+  fo.rest_min_s = o.rest_min_s;
+  fo.name = o.name;
+  fo.chemistry = o.chemistry;
+  fo.mass_kg = o.mass_kg;
+  fo.i_cont_max_A = o.i_cont_max_A;
+  if (o.v_max_V && o.v_cutoff_V && *o.v_cutoff_V >= *o.v_max_V)
+    throw UsageError("--v-cutoff-V: at or above --v-max-V");
+  const fit::CellFitResult r = fit::fit_cell(log, fo);
+
+  const nlohmann::ordered_json model = io::cell_to_json(r.cell, r.note);
+  const battery::Cell written = reload(model, o.out_file);
+
+  // Re-simulate the written model on the log's current with the integrator the other commands use.
+  battery::Pack pack;
+  pack.cell = written;
+  // The counted SoC at the first row (it may lie a little outside 0..1: "empty" and "full" are
+  // where this log's discharge and charge ended).
+  pack.soc0 = r.soc.front();
+  sim::CurrentLog cl{log.time_s, log.current_A, log.section_starts};
+  const sim::ReplayResult rep = sim::replay(pack, cl);
+  std::vector<double> centres;
+  for (const auto& b : r.bands) centres.push_back(b.soc);
+  const fit::VoltageErrors err = fit::voltage_errors(log.voltage_V, rep.v_terminal_V, r.soc, centres);
+
+  // Everything is computed before anything is written.
+  const std::string model_text = model.dump(2) + "\n";
+  const std::string text = report::fit_cell_text(log, r, err, o.out_file);
+  const std::string json = o.json_file.empty() ? "" : report::fit_cell_json(log, r, err, o.out_file).dump(2) + "\n";
+  const std::string trace = o.trace_file.empty() ? "" : report::fit_cell_trace_csv(log, r, rep.v_terminal_V);
+  io::write_output(o.out_file, model_text);
+  if (!o.report_file.empty()) io::write_output(o.report_file, text);
+  if (!o.json_file.empty()) io::write_output(o.json_file, json);
+  if (!o.trace_file.empty()) io::write_output(o.trace_file, trace);
+  if (!o.quiet && o.json_file != "-" && o.out_file != "-" && o.report_file != "-") std::cout << text;
+  return 0;
+}
+
+void add_fit_cell(CLI::App& fit, int& exit_code) {
+  auto o = std::make_shared<FitCellOptions>();
+  CLI::App* c = fit.add_subcommand("cell", "Fit a cell model (OCV, R0, RC pairs) to a pulse or discharge test log");
+  c->add_option("LOG", o->log_file, "test log: CSV (or ; or tab separated) with time, current and voltage")
+      ->required()
+      ->check(CLI::ExistingFile);
+  c->add_option("--out", o->out_file, "write the cell model (JSON) to FILE")->required();
+  c->add_option("--columns", o->columns,
+                "column names or numbers: time=NAME[:UNIT],current=...,voltage=...[,temp=...][,exclude=...][,mode=...]");
+  auto* dp = c->add_flag("--discharge-positive", o->discharge_positive, "the log's current is positive on discharge");
+  auto* dn = c->add_flag("--discharge-negative", o->discharge_negative, "the log's current is positive on charge");
+  dp->excludes(dn);
+  c->add_option("--capacity-Ah", o->capacity_Ah, "cell capacity, Ah, when the log has no full discharge")
+      ->check(CLI::PositiveNumber);
+  c->add_option("--rc", o->rc, "RC pairs to fit: 1 or 2 (default 2)")->check(CLI::IsMember({1, 2}));
+  c->add_option("--soc0", o->soc0, "state of charge at the first row, 0..1 (when the log has no full or empty point)")
+      ->check(CLI::Range(0.0, 1.0));
+  c->add_option("--v-max-V", o->v_max_V, "full-charge cell voltage, V (default: the highest charge voltage in the log)")
+      ->check(CLI::Range(1.0, 6.0));
+  c->add_option("--v-cutoff-V", o->v_cutoff_V, "end-of-discharge cell voltage, V (default: the lowest discharge voltage)")
+      ->check(CLI::Range(0.5, 5.0));
+  c->add_option("--series", o->series, "cells in series in a pack log (voltage is divided by it)")->check(CLI::Range(1, 1000));
+  c->add_option("--parallel", o->parallel, "cells in parallel in a pack log (current is divided by it)")->check(CLI::Range(1, 1000));
+  c->add_option("--soc-band", o->soc_band, "width of the SoC bands of the parameter tables (default 0.1)")
+      ->check(CLI::Range(0.02, 1.0));
+  c->add_option("--rest-min-s", o->rest_min_s, "shortest rest whose end counts as an OCV point, s (default 300)")
+      ->check(CLI::Range(1.0, 1e6));
+  c->add_option("--name", o->name, "name written into the model");
+  c->add_option("--chemistry", o->chemistry, "chemistry written into the model (e.g. LiPo, Li-ion)");
+  c->add_option("--mass-kg", o->mass_kg, "cell mass, kg (written into the model)")->check(CLI::PositiveNumber);
+  c->add_option("--i-cont-max-A", o->i_cont_max_A, "continuous current limit, A (default: the largest in the log)")
+      ->check(CLI::PositiveNumber);
+  c->add_option("--report", o->report_file, "write the fit report (text) to FILE");
+  c->add_option("--json", o->json_file, "write the fit report as JSON to FILE, or - for standard output");
+  c->add_option("--trace", o->trace_file, "write measured and model voltage per log row (CSV) to FILE");
+  c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
+  c->callback([o, &exit_code] { exit_code = run_fit_cell(*o); });
+}
+
+}  // namespace
+
+void add_fit_command(CLI::App& app, int& exit_code) {
+  CLI::App* fit = app.add_subcommand("fit", "Build cell and drive models from your own measurements");
+  fit->require_subcommand(1);
+  add_fit_cell(*fit, exit_code);
+}
+
+}  // namespace sortie::cli

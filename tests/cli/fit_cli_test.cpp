@@ -1,0 +1,132 @@
+// `sortie fit cell` end to end: the bundled synthetic log gives a model that loads and runs a
+// discharge; bad logs (no rest, a current that never changes, an all-zero current, a missing
+// column, text in a number) give a clear warning or a one-line error with exit 1 and no file.
+#include <doctest/doctest.h>
+
+#include <cmath>
+#include <nlohmann/json.hpp>
+
+#include "io/battery_json.hpp"
+#include "sim/replay.hpp"
+#include "support/cli.hpp"
+#include "support/synthetic.hpp"
+
+using namespace sortie;
+using namespace sortie::test;
+using nlohmann::json;
+
+namespace {
+
+/// A CSV log of the demo cell under `current` (A, per 1 s row), voltages from the replay.
+std::string replayed_log(const std::string& name, const std::vector<double>& current, double soc0) {
+  battery::Pack p;
+  p.cell = io::load_cell_file(source_path(kDemoLogCell));
+  p.soc0 = soc0;
+  sim::CurrentLog log;
+  for (std::size_t k = 0; k < current.size(); ++k) {
+    log.time_s.push_back(static_cast<double>(k));
+    log.current_A.push_back(current[k]);
+  }
+  const auto r = sim::replay(p, log);
+  std::string csv = "time_s,current_A,voltage_V\n";
+  char buf[80];
+  for (std::size_t k = 0; k < current.size(); ++k) {
+    std::snprintf(buf, sizeof buf, "%zu,%.3f,%.3f\n", k, current[k], std::round(r.v_terminal_V[k] * 1000) / 1000);
+    csv += buf;
+  }
+  return write_work_file(name, csv);
+}
+
+/// Expect exit 1, one stderr line holding every fragment, and no model file.
+void expect_refused(const std::string& log, const std::vector<std::string>& fragments,
+                    std::vector<std::string> extra = {}) {
+  const std::string out = work_path("refused-cell.json");
+  std::vector<std::string> args = {"fit", "cell", log, "--out", out};
+  args.insert(args.end(), extra.begin(), extra.end());
+  const auto r = run_sortie(args);
+  CHECK(r.exit_code == 1);
+  CHECK(r.out.empty());
+  CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+  for (const auto& f : fragments) CHECK_MESSAGE(r.err.find(f) != std::string::npos, "missing '" << f << "' in: " << r.err);
+  CHECK_FALSE(file_exists(out));
+  CHECK_FALSE(file_exists(out + ".part"));
+}
+
+}  // namespace
+
+TEST_SUITE("cli") {
+
+TEST_CASE("fit cell: the bundled synthetic log gives a model that loads and runs a discharge") {
+  const std::string model = work_path("fitted-demo.json"), report = work_path("fitted-demo.txt"),
+                    js = work_path("fitted-demo-report.json"), trace = work_path("fitted-demo-trace.csv");
+  const auto r = run_sortie({"fit", "cell", source_path(kDemoLogFile), "--out", model, "--mass-kg", "0.118",
+                             "--name", "demo LiPo fitted from the synthetic log (invented)", "--report", report,
+                             "--json", js, "--trace", trace});
+  REQUIRE_MESSAGE(r.exit_code == 0, r.err);
+  CHECK(r.out.find("voltage RMSE") != std::string::npos);
+  CHECK(r.out == read_file(report));
+  // The model loads with the ordinary loader: OCV of at least 11 points, strictly rising.
+  const battery::Cell c = io::load_cell_file(model);
+  CHECK(c.ocv_V.size() >= 11);
+  CHECK(c.ocv_V.strictly_increasing_y());
+  CHECK(c.rc.size() == 2);
+  CHECK(c.mass_kg == doctest::Approx(0.118));
+  CHECK(c.capacity_Ah == doctest::Approx(4.91).epsilon(0.01));  // the log's full-to-empty charge
+  const json j = json::parse(read_file(js));
+  CHECK(j["schema"] == "sortie.fit_cell/1");
+  CHECK(j["voltage_rmse_V"].get<double>() < 0.01);
+  CHECK(j["bands"].size() >= 2);
+  CHECK(read_file(trace).rfind("time_s,line,current_A,v_measured_V,v_model_V,error_mV,soc\n", 0) == 0);
+  // The fitted cell in a 4S pack runs a discharge (the path to a mission).
+  const std::string pack = write_work_file("fitted-pack.json", json{{"cell", model}, {"series", 4}, {"soc0", 1.0}}.dump());
+  const auto d = run_sortie({"discharge", pack, "--power", "150", "--quiet"});
+  CHECK_MESSAGE(d.exit_code == 0, d.err);
+}
+
+TEST_CASE("fit cell: a log with no rest is fitted with a warning saying so") {
+  // Pulses of 4C for 10 s on a 0.5C discharge, never at rest, from full (given by --soc0).
+  std::vector<double> i;
+  for (int k = 0; k < 6000; ++k) i.push_back(k % 130 < 10 ? 20.0 : 2.5);
+  const std::string log = replayed_log("no-rest.csv", i, 1.0);
+  const std::string out = work_path("no-rest.json");
+  const auto r = run_sortie({"fit", "cell", log, "--out", out, "--soc0", "1", "--capacity-Ah", "5"});
+  REQUIRE_MESSAGE(r.exit_code == 0, r.err);
+  CHECK(r.out.find("no rest of 300 s or more") != std::string::npos);
+  CHECK(io::load_cell_file(out).ocv_V.size() >= 11);
+}
+
+TEST_CASE("fit cell: a current that never changes is refused") {
+  const std::string log = replayed_log("constant.csv", std::vector<double>(3000, 2.5), 1.0);
+  expect_refused(log, {"constant.csv: the current never changes", "2.500 A in every row"}, {"--soc0", "1", "--capacity-Ah", "5"});
+}
+
+TEST_CASE("fit cell: an all-zero current is refused") {
+  const std::string log = replayed_log("zero.csv", std::vector<double>(600, 0.0), 0.5);
+  expect_refused(log, {"zero.csv: the current is zero in every row", "nothing to fit"});
+}
+
+TEST_CASE("fit cell: a missing column and text in a number are one-line errors") {
+  const std::string no_v = write_work_file("no-voltage.csv", "time_s,current_A\n0,0\n1,2\n2,0\n");
+  expect_refused(no_v, {"no-voltage.csv: no header line naming the time, current and voltage columns"});
+  const std::string bad = write_work_file("bad-number.csv", "time_s,current_A,voltage_V\n0,0,3.8\n1,2,x3.7\n2,0,3.8\n");
+  expect_refused(bad, {"bad-number.csv: line 3: voltage column 'voltage_V' is not a number (got \"x3.7\""});
+  const std::string asked = write_work_file("asked.csv", "t,I,U\n0,0,3.8\n1,2,3.7\n");
+  expect_refused(asked, {"asked.csv: no header line", "time=Zeit", "not all found"},
+                 {"--columns", "time=Zeit,current=I,voltage=U"});
+}
+
+TEST_CASE("fit cell: bad usage exits 2") {
+  const std::string log = source_path(kDemoLogFile);
+  for (const auto& args : std::vector<std::vector<std::string>>{
+           {"fit", "cell", log},                                               // no --out
+           {"fit", "cell", log, "--out", work_path("x.json"), "--rc", "3"},  // 1 or 2 pairs
+           {"fit", "cell", log, "--out", work_path("x.json"), "--columns", "volts=3"},
+           {"fit", "cell", log, "--out", work_path("x.json"), "--discharge-positive", "--discharge-negative"},
+           {"fit"}}) {
+    const auto r = run_sortie(args);
+    CHECK_MESSAGE(r.exit_code == 2, r.err);
+    CHECK_FALSE(file_exists(work_path("x.json")));
+  }
+}
+
+}  // TEST_SUITE
