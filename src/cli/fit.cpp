@@ -7,12 +7,17 @@
 #include "cli/commands.hpp"
 #include "core/error.hpp"
 #include "fit/fit_cell.hpp"
+#include "fit/fit_drive.hpp"
 #include "fit/voltage_error.hpp"
 #include "io/battery_json.hpp"
 #include "io/cell_json_write.hpp"
+#include "io/bench_csv.hpp"
 #include "io/cell_log_csv.hpp"
+#include "io/drive_json.hpp"
+#include "io/drive_json_write.hpp"
 #include "io/json_reader.hpp"
 #include "io/output.hpp"
+#include "report/fit_drive_report.hpp"
 #include "report/fit_report.hpp"
 #include "sim/replay.hpp"
 
@@ -133,12 +138,82 @@ void add_fit_cell(CLI::App& fit, int& exit_code) {
   c->callback([o, &exit_code] { exit_code = run_fit_cell(*o); });
 }
 
+struct FitDriveOptions {
+  std::string bench_file, out_file, columns;
+  std::optional<double> diameter_m;
+  int rotors = 1;
+  double rho_kg_m3 = 1.225;
+  std::optional<double> motor_i_max_A, esc_i_max_A, duty_max;
+  std::string name, report_file, json_file;
+  bool quiet = false;
+};
+
+int run_fit_drive(const FitDriveOptions& o) {
+  if (!o.diameter_m)
+    throw UsageError("fit drive: --diameter-m is required (CT and CP are defined per prop diameter)");
+  const propulsion::BenchMap bench = io::load_bench_csv(o.bench_file, o.columns.empty() ? io::BenchColumns{}
+                                                                                       : io::parse_bench_columns(o.columns));
+  fit::DriveFitOptions fo;
+  fo.diameter_m = *o.diameter_m;
+  fo.rotors = o.rotors;
+  fo.rho_kg_m3 = o.rho_kg_m3;
+  fo.name = o.name;
+  fo.file = o.bench_file;
+  fo.motor_i_max_A = o.motor_i_max_A;
+  fo.esc_i_max_A = o.esc_i_max_A;
+  fo.duty_max = o.duty_max;
+  const fit::DriveFitResult r = fit::fit_drive(bench, fo);
+  const nlohmann::ordered_json model = io::drive_to_json(r.drive, r.note);
+  {
+    // The model as written, read back through the loader (its checks, e.g. CP against momentum
+    // theory, apply to what the user gets).
+    const nlohmann::json plain = nlohmann::json::parse(model.dump());
+    io::ObjectReader reader(plain, io::Source{o.out_file, std::filesystem::path(o.out_file).parent_path()}, "");
+    (void)io::read_drive(reader);
+  }
+  const std::string model_text = model.dump(2) + "\n";
+  const std::string text = report::fit_drive_text(o.bench_file, r, o.out_file);
+  const std::string json = o.json_file.empty() ? "" : report::fit_drive_json(o.bench_file, r, o.out_file).dump(2) + "\n";
+  io::write_output(o.out_file, model_text);
+  if (!o.report_file.empty()) io::write_output(o.report_file, text);
+  if (!o.json_file.empty()) io::write_output(o.json_file, json);
+  if (!o.quiet && o.json_file != "-" && o.out_file != "-" && o.report_file != "-") std::cout << text;
+  return 0;
+}
+
+void add_fit_drive(CLI::App& fit, int& exit_code) {
+  auto o = std::make_shared<FitDriveOptions>();
+  CLI::App* c = fit.add_subcommand("drive", "Fit a drive model (Kv, Rm, I0, ESC losses, static CT and CP) to a throttle-step bench test");
+  c->add_option("BENCH", o->bench_file, "bench test: CSV with throttle, bus voltage, bus current, rpm, thrust (torque optional)")
+      ->required()
+      ->check(CLI::ExistingFile);
+  c->add_option("--out", o->out_file, "write the drive model (JSON) to FILE")->required();
+  c->add_option("--columns", o->columns, "column names: throttle=NAME[:UNIT],voltage=...,current=...,rpm=...,thrust=...[,torque=...]");
+  c->add_option("--diameter-m", o->diameter_m, "prop diameter, m (required: CT and CP are per diameter)")
+      ->check(CLI::Range(0.01, 10.0));
+  c->add_option("--rotors", o->rotors, "rotors of the drive written (default 1)")->check(CLI::Range(1, 64));
+  c->add_option("--air-density-kg-m3", o->rho_kg_m3, "air density on the bench, kg/m³ (default 1.225, ISA sea level)")
+      ->check(CLI::Range(0.1, 2.0));
+  c->add_option("--name", o->name, "name written into the model");
+  c->add_option("--motor-i-max-A", o->motor_i_max_A, "motor continuous current limit, A (default: the bench's largest)")
+      ->check(CLI::PositiveNumber);
+  c->add_option("--esc-i-max-A", o->esc_i_max_A, "ESC continuous current limit, A (default: the bench's largest)")
+      ->check(CLI::PositiveNumber);
+  c->add_option("--duty-max", o->duty_max, "highest ESC duty, 0..1 (default 0.98, or the bench's highest throttle)")
+      ->check(CLI::Range(0.05, 1.0));
+  c->add_option("--report", o->report_file, "write the fit report (text) to FILE");
+  c->add_option("--json", o->json_file, "write the fit report as JSON to FILE, or - for standard output");
+  c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
+  c->callback([o, &exit_code] { exit_code = run_fit_drive(*o); });
+}
+
 }  // namespace
 
 void add_fit_command(CLI::App& app, int& exit_code) {
   CLI::App* fit = app.add_subcommand("fit", "Build cell and drive models from your own measurements");
   fit->require_subcommand(1);
   add_fit_cell(*fit, exit_code);
+  add_fit_drive(*fit, exit_code);
 }
 
 }  // namespace sortie::cli

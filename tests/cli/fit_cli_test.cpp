@@ -1,12 +1,14 @@
-// `sortie fit cell` end to end: the bundled synthetic log gives a model that loads and runs a
-// discharge; bad logs (no rest, a current that never changes, an all-zero current, a missing
-// column, text in a number) give a clear warning or a one-line error with exit 1 and no file.
+// `sortie fit cell` and `sortie fit drive` end to end: the bundled synthetic log and bench test
+// give models that load and run; bad logs (no rest, a current that never changes, an all-zero
+// current, a missing column, text in a number) give a clear warning or a one-line error with
+// exit 1 and no file.
 #include <doctest/doctest.h>
 
 #include <cmath>
 #include <nlohmann/json.hpp>
 
 #include "io/battery_json.hpp"
+#include "io/drive_json.hpp"
 #include "sim/replay.hpp"
 #include "support/cli.hpp"
 #include "support/synthetic.hpp"
@@ -127,6 +129,38 @@ TEST_CASE("fit cell: bad usage exits 2") {
     CHECK_MESSAGE(r.exit_code == 2, r.err);
     CHECK_FALSE(file_exists(work_path("x.json")));
   }
+}
+
+TEST_CASE("fit drive: the bundled synthetic bench gives a drive that sortie drive runs") {
+  const std::string model = work_path("fitted-drive.json"), js = work_path("fitted-drive-report.json");
+  const auto r = run_sortie({"fit", "drive", source_path(kDemoBenchFile), "--out", model, "--diameter-m", "0.381",
+                             "--rotors", "4", "--json", js});
+  REQUIRE_MESSAGE(r.exit_code == 0, r.err);
+  CHECK(r.out.find("per throttle step") != std::string::npos);
+  const auto d = io::load_drive_file(model);
+  CHECK(d.rotors == 4);
+  CHECK(d.motor.kv_rpm_per_V == doctest::Approx(400.0).epsilon(0.01));  // the invented drive's Kv
+  const json j = json::parse(read_file(js));
+  CHECK(j["schema"] == "sortie.fit_drive/1");
+  CHECK(j["points"].size() == 13);
+  CHECK(j["max_power_pct"].get<double>() < 2.0);
+  const auto run = run_sortie({"drive", model, "--bus-V", "16", "--thrust-N", "8"});
+  CHECK_MESSAGE(run.exit_code == 0, run.err);
+}
+
+TEST_CASE("fit drive: no diameter is bad usage, too few steps bad input") {
+  const std::string out = work_path("drive-refused.json");
+  const auto u = run_sortie({"fit", "drive", source_path(kDemoBenchFile), "--out", out});
+  CHECK(u.exit_code == 2);
+  CHECK(u.err.find("--diameter-m is required") != std::string::npos);
+  CHECK_FALSE(file_exists(out));
+  const std::string few = write_work_file("few.csv", "throttle (%),voltage (V),current (A),rpm,thrust (g)\n"
+                                                     "0,16,0.02,0,0\n50,16,4,3000,700\n80,16,12,4400,1500\n");
+  const auto b = run_sortie({"fit", "drive", few, "--out", out, "--diameter-m", "0.381"});
+  CHECK(b.exit_code == 1);
+  CHECK(std::count(b.err.begin(), b.err.end(), '\n') == 1);
+  CHECK(b.err.find("few.csv: too few rows with the motor turning (got 2") != std::string::npos);
+  CHECK_FALSE(file_exists(out));
 }
 
 }  // TEST_SUITE
