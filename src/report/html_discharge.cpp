@@ -53,7 +53,7 @@ std::string discharge_html(const battery::Pack& pack, const std::string& load_la
   svg::LinePlot v;
   v.id = kDischargePlots[0];
   v.title = "Pack voltage and state of charge during the discharge";
-  v.x = {"time", unit, 0.0, std::max(r.time_to_end_s, 1e-3) * per_s};
+  v.x = {"time", unit, 0.0, std::max(r.time_to_end_s, 1e-3) * per_s, true};
   v.y = {"pack voltage", "V", {}, {}};
   v.y2 = svg::Axis{"state of charge", "%", 0.0, 100.0};
   svg::Line loaded{"loaded pack voltage", {}, {}, kVoltage};

@@ -50,6 +50,10 @@ std::string signed_fixed(double v, int digits) {
   return s;
 }
 
+svg::Axis time_x(const sim::MissionResult& r, const TimeAxis& ta) {
+  return {"time", ta.unit, 0.0, std::max(r.flight_time_s, 1.0) * ta.per_s, true};
+}
+
 std::vector<svg::Band> phase_bands(const sim::MissionResult& r, const TimeAxis& ta) {
   std::vector<svg::Band> bands;
   for (std::size_t i = 0; i < r.phases.size(); ++i) {
@@ -89,7 +93,7 @@ std::string voltage_plot(const sim::Mission& m, const sim::MissionResult& r, con
   svg::LinePlot p;
   p.id = "fly-voltage-soc";
   p.title = "Pack voltage and state of charge over the flight";
-  p.x = {"time", ta.unit, 0.0, std::max(r.flight_time_s, 1.0) * ta.per_s};
+  p.x = time_x(r, ta);
   p.y = {"pack voltage", "V", {}, {}};
   p.y2 = svg::Axis{"state of charge", "%", 0.0, 100.0};
   svg::Line loaded{"loaded pack voltage", {}, {}, kVoltage};
@@ -132,11 +136,11 @@ std::string current_plot(const sim::Mission& m, const sim::MissionResult& r, con
   svg::LinePlot p;
   p.id = "fly-current";
   p.title = "Pack current and C-rate over the flight";
-  p.x = {"time", ta.unit, 0.0, std::max(r.flight_time_s, 1.0) * ta.per_s};
+  p.x = time_x(r, ta);
   p.y = {"pack current", "A", 0.0, {}};
   p.y2 = svg::Axis{"C-rate", "", {}, {}};
   p.y2_per_y = 1.0 / rated_Ah;
-  svg::Line i{"pack current (right axis: the same as C-rate)", {}, {}, kCurrent};
+  svg::Line i{"pack current (the right-hand scale reads it as C-rate)", {}, {}, kCurrent};
   for (const auto& tp : r.trace) {
     i.x.push_back(tp.s.t * ta.per_s);
     i.y.push_back(tp.s.term.current_A);
@@ -152,8 +156,12 @@ std::string duty_plot(const sim::MissionResult& r, const TimeAxis& ta) {
   svg::LinePlot p;
   p.id = "fly-duty-efficiency";
   p.title = "ESC duty over the flight and drive efficiencies by phase";
-  p.x = {"time", ta.unit, 0.0, std::max(r.flight_time_s, 1.0) * ta.per_s};
+  p.x = time_x(r, ta);
   p.y = {"duty, efficiency", "%", 0.0, 100.0};
+  // The same scale on the right too: easier reading at the end of the flight, and the frame
+  // lines up with the plots above that have a second axis.
+  p.y2 = p.y;
+  p.y2_per_y = 1.0;
   svg::Line duty{"ESC duty", {}, {}, kDuty};
   for (const auto& tp : r.trace) {
     duty.x.push_back(tp.s.t * ta.per_s);
@@ -256,8 +264,7 @@ std::string fly_html(const sim::Mission& m, const sim::MissionResult& r, const s
                    soc_rule && !soc_rule->pass});
   if (s.phase) {
     cards.push_back({"spare time", keyed("spare_s", signed_fixed(s.spare_s, 0) + " s"),
-                     "on phase " + phase_name(m, static_cast<int>(*s.phase)) +
-                         (s.binding_rule.empty() ? "" : ", then " + rule_words(s.binding_rule) + " binds"),
+                     "on phase " + phase_name(m, static_cast<int>(*s.phase)),
                      s.spare_s < 0});
   }
   cards.push_back({"energy used", keyed("energy_Wh", fixed(r.energy_Wh, 2) + " Wh"), fixed(r.charge_Ah, 3) + " Ah"});

@@ -76,6 +76,7 @@ struct Range {
 
 // Ticks of an axis: fixed ends are kept as given; free ends are rounded out to a tick.
 Ticks axis_ticks(const Axis& a, Range data, int target, bool round_out) {
+  const bool quarter = !a.no_quarter_steps;
   if (a.min) data.include(*a.min);
   if (a.max) data.include(*a.max);
   if (data.empty) {
@@ -89,7 +90,7 @@ Ticks axis_ticks(const Axis& a, Range data, int target, bool round_out) {
     if (!a.min) lo -= pad;
     if (!a.max) hi += pad;
   }
-  Ticks t = nice_ticks(lo, hi, target);
+  Ticks t = nice_ticks(lo, hi, target, quarter);
   if (round_out) {
     if (!a.min) lo = t.lo;
     if (!a.max) hi = t.hi;
@@ -153,7 +154,7 @@ std::string tick_label(double v, int decimals) {
   return s;
 }
 
-Ticks nice_ticks(double lo, double hi, int target) {
+Ticks nice_ticks(double lo, double hi, int target, bool quarter_steps) {
   if (!std::isfinite(lo) || !std::isfinite(hi)) lo = 0.0, hi = 1.0;
   if (hi < lo) std::swap(lo, hi);
   target = std::max(target, 1);
@@ -167,7 +168,7 @@ Ticks nice_ticks(double lo, double hi, int target) {
   const double p = std::pow(10.0, std::floor(std::log10(raw)));
   double step = 10.0 * p;
   for (double m : {1.0, 2.0, 2.5, 5.0, 10.0})
-    if (m * p >= raw * (1 - 1e-9)) {
+    if ((quarter_steps || m != 2.5) && m * p >= raw * (1 - 1e-9)) {
       step = m * p;
       break;
     }
@@ -348,47 +349,60 @@ std::string render(const LinePlot& p) {
 
   // Reference levels, then the curves over them.
   o += "<g class=\"levels\" font-size=\"" + num(kTickFont) + "\">\n";
-  bool placed_right = true;
-  double placed_y = -1e9;
-  for (std::size_t i = 0; i < p.levels.size(); ++i) {
-    const auto& lv = p.levels[i];
+  struct Box {
+    double x0, x1, y0, y1;
+    bool overlaps(const Box& o) const { return x0 < o.x1 && o.x0 < x1 && y0 < o.y1 && o.y0 < y1; }
+  };
+  std::vector<Box> placed;
+  if (!p.bands.empty()) placed.push_back({f.left, f.left + f.width, f.top, f.top + 18});  // the band numbers
+  std::vector<double> level_y;
+  for (const auto& lv : p.levels) {
     const double y = f.py(lv.side == Side::left ? lv.value : right_to_left(lv.value));
+    level_y.push_back(y);
     if (y < f.top - 0.5 || y > f.top + f.height + 0.5) continue;
     o += "<line" + attr("x1", f.left) + attr("y1", y) + attr("x2", f.left + f.width) + attr("y2", y) + " stroke=\"" +
          escape(lv.color) + "\" stroke-width=\"1.8\" stroke-dasharray=\"10 4 2 4\"/>\n";
-    // The label goes to the end, and the side of the line, where the curves leave it most room;
-    // a second level close to the first takes the other end.
+  }
+  for (std::size_t i = 0; i < p.levels.size(); ++i) {
+    const auto& lv = p.levels[i];
+    const double y = level_y[i];
+    if (y < f.top - 0.5 || y > f.top + f.height + 0.5) continue;
+    // Four places for the label: either end, above or below its line. It takes the one that
+    // overlaps no label already placed and leaves the curves the most room.
     const double label_w = text_width(lv.label, kTickFont) + 16;
-    auto clearance = [&](bool right, bool above) {
-      const double xa = right ? f.left + f.width - label_w : f.left, xb = right ? f.left + f.width : f.left + label_w;
-      const double ya = above ? y - 22 : y, yb = above ? y : y + 22;
-      if (ya < f.top || yb > f.top + f.height) return -1.0;
-      double room = 1e9;
+    auto box_of = [&](bool right, bool above) {
+      const double x0 = right ? f.left + f.width - label_w : f.left;
+      return Box{x0, x0 + label_w, above ? y - 20 : y + 1, above ? y - 1 : y + 20};
+    };
+    auto score = [&](bool right, bool above) {
+      const Box b = box_of(right, above);
+      double room = 40.0;  // enough: beyond this, more room does not read better
       for (const auto& l : p.lines)
         for (std::size_t k = 0; k < l.x.size() && k < l.y.size(); ++k) {
           if (!std::isfinite(l.y[k])) continue;
           const double px = f.px(l.x[k]);
-          if (px < xa || px > xb) continue;
+          if (px < b.x0 || px > b.x1) continue;
           const double py = f.py(l.side == Side::left ? l.y[k] : right_to_left(l.y[k]));
-          room = std::min(room, py < ya ? ya - py : (py > yb ? py - yb : 0.0));
+          room = std::min(room, py < b.y0 ? b.y0 - py : (py > b.y1 ? py - b.y1 : 0.0));
         }
+      if (b.y0 < f.top || b.y1 > f.top + f.height) room -= 1e5;
+      for (const auto& q : placed)
+        if (b.overlaps(q)) room -= 1e6;
       return room;
     };
     bool at_right = true, above = true;
-    double best = -2.0;
+    double best = -1e300;
     for (bool r_side : {true, false})
       for (bool a_side : {true, false}) {
-        double c = clearance(r_side, a_side);
-        if (i > 0 && r_side == placed_right && std::fabs(y - placed_y) < 24) c -= 1e6;  // keep clear of the last
+        const double c = score(r_side, a_side);
         if (c > best + 1e-9) {
           best = c;
           at_right = r_side;
           above = a_side;
         }
       }
-    placed_right = at_right;
-    placed_y = y;
-    const double ty_text = above ? y - 6 : y + 17;
+    placed.push_back(box_of(at_right, above));
+    const double ty_text = above ? y - 6 : y + 16;
     o += text(at_right ? f.left + f.width - 8 : f.left + 8, ty_text, lv.label,
               std::string(" text-anchor=\"") + (at_right ? "end" : "start") + "\" fill=\"" + escape(lv.color) + "\"" +
                   kHalo);

@@ -20,7 +20,8 @@ struct Ticks {
 };
 
 /// Ticks covering [lo, hi] with about `target` intervals; a zero-width range is widened.
-Ticks nice_ticks(double lo, double hi, int target = 6);
+/// Without `quarter_steps` the steps are 1, 2 or 5 times a power of ten (for time axes).
+Ticks nice_ticks(double lo, double hi, int target = 6, bool quarter_steps = true);
 
 /// Thin a polyline to at most about `max_points` points for drawing: the first and last points
 /// stay, and each bucket keeps the points holding its smallest and largest y, so spikes and
@@ -37,6 +38,7 @@ struct Axis {
   std::string quantity;             ///< "pack voltage"
   std::string unit;                 ///< "V"; the label reads "pack voltage / V"
   std::optional<double> min, max;   ///< fixed ends; otherwise from the data, rounded to ticks
+  bool no_quarter_steps = false;    ///< ticks every 1, 2 or 5 (never 2.5): time in minutes
   std::string label() const { return unit.empty() ? quantity : quantity + " / " + unit; }
 };
 
