@@ -36,14 +36,14 @@ std::string compare_text(const sim::Mission& base, const std::vector<sim::Compar
     out += "spare time is on phase " + phase_name(base, static_cast<int>(*rows.front().spare.phase)) + "\n";
   out += "\n";
   TextTable t({"rank", "pack", "verdict", "spare s", "flight s", "landing SoC %", "pack kg", "all-up kg", "max C",
-               "duty mean", "ESC η mean", "limit"});
+               "duty mean %", "ESC η mean %", "limit"});
   int rank = 0;
   for (const auto& row : rows) {
     const auto& r = row.result;
     t.add_row({std::to_string(++rank), row.candidate.label, r.go ? "go" : "NO-GO", spare_cell(row),
                fixed(r.flight_time_s, 0), r.refused ? "-" : fixed(r.landing.soc * 100, 1), fixed(r.pack_mass_kg, 3),
-               fixed(r.all_up_mass_kg, 3), r.refused ? "-" : fixed(r.c_rate_max, 2), r.refused ? "-" : fixed(r.duty_mean, 3),
-               r.refused ? "-" : fixed(r.eta_esc_mean, 3), limit_words(row)});
+               fixed(r.all_up_mass_kg, 3), r.refused ? "-" : fixed(r.c_rate_max, 2), r.refused ? "-" : fixed(r.duty_mean * 100, 1),
+               r.refused ? "-" : fixed(r.eta_esc_mean * 100, 1), limit_words(row)});
   }
   out += t.render();
   out += "\nAn estimate from models, not a clearance to fly: follow local aviation rules and the\n"

@@ -89,7 +89,7 @@ std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::S
 
   out += "phases\n";
   TextTable pt({"phase", "start s", "time s", "dist m", "thrust/rotor N", "energy Wh", "charge Ah",
-                "min cell V", "max A", "max C", "duty mean", "duty max", "η drive"});
+                "min cell V", "max A", "max C", "duty mean %", "duty max %", "η drive %"});
   for (std::size_t i = 0; i < r.phases.size(); ++i) {
     const auto& p = r.phases[i];
     const bool flown_any = p.duration_s > 0 || p.flown;
@@ -98,8 +98,8 @@ std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::S
     pt.add_row({phase_name(m, static_cast<int>(i)), fixed(p.start_s, 0), time, fixed(p.distance_m, 0),
                 flown_any ? fixed(p.thrust_per_rotor_N, 2) : "-", fixed(p.energy_Wh, 2), fixed(p.charge_Ah, 3),
                 flown_any ? fixed(p.v_min_cell_V, 3) : "-", flown_any ? fixed(p.i_max_A, 1) : "-",
-                flown_any ? fixed(p.c_rate_max, 2) : "-", flown_any ? fixed(p.duty_mean, 3) : "-",
-                flown_any ? fixed(p.duty_max, 3) : "-", flown_any ? fixed(p.eta_mean, 3) : "-"});
+                flown_any ? fixed(p.c_rate_max, 2) : "-", flown_any ? fixed(p.duty_mean * 100, 1) : "-",
+                flown_any ? fixed(p.duty_max * 100, 1) : "-", flown_any ? fixed(p.eta_mean * 100, 1) : "-"});
   }
   out += pt.render();
   out += "  (time s: flown/planned where the flight ended early; η drive = shaft energy / drive energy, motor × ESC)\n\n";
@@ -113,7 +113,7 @@ std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::S
   land.add("resting cell voltage at landing", fixed(r.landing.v_rest_cell_V, 3) + " V");
   land.add("lowest loaded cell voltage", fixed(r.v_min_cell_V, 3) + " V");
   land.add("highest current", fixed(r.i_max_A, 1) + " A (" + fixed(r.c_rate_max, 2) + " C)");
-  land.add("mean duty, mean ESC efficiency", fixed(r.duty_mean, 3) + ", " + fixed(r.eta_esc_mean, 3));
+  land.add("mean duty, mean ESC efficiency", fixed(r.duty_mean * 100, 1) + " %, " + fixed(r.eta_esc_mean * 100, 1) + " %");
   if (m.reserve.hover_s) land.add("time on station left at landing", fixed(r.reserve_time_s, 0) + " s");
   if (s.phase)
     land.add("spare time", (s.spare_s >= 0 ? "+" : "") + fixed(s.spare_s, 0) + " s on phase " +
@@ -135,6 +135,7 @@ std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::S
   if (!r.events.empty()) {
     out += "events\n";
     TextTable et({"t s", "phase", "event", "detail"});
+    et.wrap_last(72);
     for (const auto& e : r.events) et.add_row({fixed(e.t_s, 1), phase_name(m, e.phase), e.kind, e.detail});
     out += et.render() + "\n";
   }

@@ -35,7 +35,48 @@ bool numeric(const std::string& s) {
 }
 }  // namespace
 
+namespace {
+/// Lines of at most `width` display columns, broken at spaces (a longer word stays whole).
+std::vector<std::string> wrap_text(const std::string& s, std::size_t width) {
+  std::vector<std::string> lines;
+  std::string line;
+  std::size_t p = 0;
+  while (p <= s.size()) {
+    const auto e = std::min(s.find(' ', p), s.size());
+    const std::string word = s.substr(p, e - p);
+    if (!line.empty() && display_width(line) + 1 + display_width(word) > width) {
+      lines.push_back(line);
+      line.clear();
+    }
+    line += (line.empty() ? "" : " ") + word;
+    p = e + 1;
+  }
+  if (!line.empty() || lines.empty()) lines.push_back(line);
+  return lines;
+}
+}  // namespace
+
 std::string TextTable::render(const std::string& indent) const {
+  if (wrap_ > 0 && !header_.empty()) {
+    // Continuation lines carry the rest of the last column, with the other columns empty.
+    TextTable t(header_);
+    for (const auto& r : rows_) {
+      if (r.size() < header_.size()) {
+        t.add_row(r);
+        continue;
+      }
+      const auto parts = wrap_text(r.back(), wrap_);
+      std::vector<std::string> first = r;
+      first.back() = parts.front();
+      t.add_row(first);
+      for (std::size_t k = 1; k < parts.size(); ++k) {
+        std::vector<std::string> more(header_.size(), "");
+        more.back() = parts[k];
+        t.add_row(more);
+      }
+    }
+    return t.render(indent);
+  }
   // Text columns are left-aligned, number columns right-aligned; the first is always text.
   std::vector<bool> left(header_.size(), false);
   left[0] = true;

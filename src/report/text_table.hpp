@@ -13,11 +13,14 @@ class TextTable {
   /// Column titles, e.g. {"phase", "start s", "energy Wh"}; the first column is left-aligned.
   explicit TextTable(std::vector<std::string> header) : header_(std::move(header)) {}
   void add_row(std::vector<std::string> cells) { rows_.push_back(std::move(cells)); }
+  /// Wrap the last column's text at spaces to lines of at most `width` columns (long notes).
+  void wrap_last(std::size_t width) { wrap_ = width; }
   std::string render(const std::string& indent = "  ") const;
 
  private:
   std::vector<std::string> header_;
   std::vector<std::vector<std::string>> rows_;
+  std::size_t wrap_ = 0;
 };
 
 /// Lines of "label  value" with the labels padded to one width.
