@@ -30,8 +30,11 @@ const char* anchor_key(fit::SocAnchor::Kind k) {
 }
 
 std::string where(const fit::CellLog& log, const fit::CellFitResult& r, std::size_t row) {
+  const double soc = r.soc[row];
   return "line " + std::to_string(log.line[row]) + " (t = " + fixed(log.time_s[row] - log.time_s.front(), 1) +
-         " s, SoC " + fixed(r.soc[row], 3) + ")";
+         " s, SoC " + fixed(soc, 3) + ")" +
+         (soc < -0.005 || soc > 1.005 ? ", beyond this log's own full or empty point, where the tables hold their end values"
+                                      : "");
 }
 
 }  // namespace
