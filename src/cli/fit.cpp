@@ -19,6 +19,7 @@
 #include "io/output.hpp"
 #include "report/fit_drive_report.hpp"
 #include "report/fit_report.hpp"
+#include "report/html_fit.hpp"
 #include "sim/replay.hpp"
 
 namespace sortie::cli {
@@ -34,6 +35,7 @@ struct FitCellOptions {
   double soc_band = 0.1, rest_min_s = 300.0;
   std::string name, chemistry;
   std::string report_file, json_file, trace_file;
+  std::string html_file;
   bool quiet = false;
 };
 
@@ -91,11 +93,13 @@ int run_fit_cell(const FitCellOptions& o) {
   const std::string text = report::fit_cell_text(log, r, err, o.out_file);
   const std::string json = o.json_file.empty() ? "" : report::fit_cell_json(log, r, err, o.out_file).dump(2) + "\n";
   const std::string trace = o.trace_file.empty() ? "" : report::fit_cell_trace_csv(log, r, rep.v_terminal_V);
+  const std::string page = o.html_file.empty() ? "" : report::fit_cell_html(log, r, err, rep.v_terminal_V, o.out_file);
   io::write_output(o.out_file, model_text);
   if (!o.report_file.empty()) io::write_output(o.report_file, text);
   if (!o.json_file.empty()) io::write_output(o.json_file, json);
   if (!o.trace_file.empty()) io::write_output(o.trace_file, trace);
-  if (!o.quiet && o.json_file != "-" && o.out_file != "-" && o.report_file != "-") std::cout << text;
+  if (!o.html_file.empty()) io::write_output(o.html_file, page);
+  if (!o.quiet && o.json_file != "-" && o.out_file != "-" && o.report_file != "-" && o.html_file != "-") std::cout << text;
   return 0;
 }
 
@@ -134,6 +138,7 @@ void add_fit_cell(CLI::App& fit, int& exit_code) {
   c->add_option("--report", o->report_file, "write the fit report (text) to FILE");
   c->add_option("--json", o->json_file, "write the fit report as JSON to FILE, or - for standard output");
   c->add_option("--trace", o->trace_file, "write measured and model voltage per log row (CSV) to FILE");
+  c->add_option("--html", o->html_file, "write the fit report as one self-contained HTML page (plots inline) to FILE");
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
   c->callback([o, &exit_code] { exit_code = run_fit_cell(*o); });
 }
@@ -145,6 +150,7 @@ struct FitDriveOptions {
   double rho_kg_m3 = 1.225;
   std::optional<double> motor_i_max_A, esc_i_max_A, duty_max;
   std::string name, report_file, json_file;
+  std::string html_file;
   bool quiet = false;
 };
 
@@ -174,10 +180,12 @@ int run_fit_drive(const FitDriveOptions& o) {
   const std::string model_text = model.dump(2) + "\n";
   const std::string text = report::fit_drive_text(o.bench_file, r, o.out_file);
   const std::string json = o.json_file.empty() ? "" : report::fit_drive_json(o.bench_file, r, o.out_file).dump(2) + "\n";
+  const std::string page = o.html_file.empty() ? "" : report::fit_drive_html(o.bench_file, r, o.out_file);
   io::write_output(o.out_file, model_text);
   if (!o.report_file.empty()) io::write_output(o.report_file, text);
   if (!o.json_file.empty()) io::write_output(o.json_file, json);
-  if (!o.quiet && o.json_file != "-" && o.out_file != "-" && o.report_file != "-") std::cout << text;
+  if (!o.html_file.empty()) io::write_output(o.html_file, page);
+  if (!o.quiet && o.json_file != "-" && o.out_file != "-" && o.report_file != "-" && o.html_file != "-") std::cout << text;
   return 0;
 }
 
@@ -199,10 +207,11 @@ void add_fit_drive(CLI::App& fit, int& exit_code) {
       ->check(CLI::PositiveNumber);
   c->add_option("--esc-i-max-A", o->esc_i_max_A, "ESC continuous current limit, A (default: the bench's largest)")
       ->check(CLI::PositiveNumber);
-  c->add_option("--duty-max", o->duty_max, "highest ESC duty, 0..1 (default 0.98, or the bench's highest throttle)")
+  c->add_option("--duty-max", o->duty_max, "highest ESC duty, 0..1: duty = throttle x this (default 1)")
       ->check(CLI::Range(0.05, 1.0));
   c->add_option("--report", o->report_file, "write the fit report (text) to FILE");
   c->add_option("--json", o->json_file, "write the fit report as JSON to FILE, or - for standard output");
+  c->add_option("--html", o->html_file, "write the fit report as one self-contained HTML page (plots inline) to FILE");
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
   c->callback([o, &exit_code] { exit_code = run_fit_drive(*o); });
 }

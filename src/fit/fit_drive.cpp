@@ -109,11 +109,13 @@ DriveFitResult fit_drive(const propulsion::BenchMap& bench, const DriveFitOption
     p_max = std::max(p_max, b.bus_W());
     if (b.torque_Nm) q_max = std::max(q_max, *b.torque_Nm);
   }
+  // Duty from throttle as `sortie drive` reads it: throttle = duty / duty_max.
+  const double duty_max = opts.duty_max.value_or(1.0);
   std::vector<Row> rows;
   std::size_t running = 0;
   for (const auto& b : bench.rows) {
     Row r;
-    r.duty = b.throttle_pct / 100.0;
+    r.duty = duty_max * b.throttle_pct / 100.0;
     r.v_bus = b.v_bus_V;
     r.rpm = b.rpm;
     r.thrust_N = b.thrust_N;
@@ -267,12 +269,11 @@ DriveFitResult fit_drive(const propulsion::BenchMap& bench, const DriveFitOption
   if (!opts.motor_i_max_A || !opts.esc_i_max_A)
     out.notes.push_back("current limits set to the largest motor current on the bench, " + fixed(i_lim, 1) +
                         " A (give --motor-i-max-A and --esc-i-max-A for the makers' ratings)");
-  double thr_top = 0.0;
-  for (const Row& r : rows) thr_top = std::max(thr_top, r.duty);
-  // The ESC reached the bench's highest throttle; 0.98 is a common ceiling otherwise.
-  d.esc.duty_max = opts.duty_max.value_or(std::min(1.0, std::max(0.98, thr_top)));
-  out.notes.push_back("duty taken equal to the throttle command (a linear throttle response); air density " +
-                      fixed(rho, 3) + " kg/m³" + (rho == 1.225 ? " (ISA sea level; give --air-density-kg-m3)" : ""));
+  d.esc.duty_max = duty_max;
+  out.notes.push_back("duty = throttle × duty_max with duty_max " + fixed(duty_max, 3) +
+                      (opts.duty_max ? "" : " (give --duty-max for the ESC's)") +
+                      " (a linear throttle response); air density " + fixed(rho, 3) + " kg/m³" +
+                      (rho == 1.225 ? " (ISA sea level; give --air-density-kg-m3)" : ""));
 
   // --- every row through the propulsion model as `sortie drive` runs it ---
   std::vector<double> e_rpm, e_thrust, e_power, e_torque;
@@ -318,7 +319,7 @@ DriveFitResult fit_drive(const propulsion::BenchMap& bench, const DriveFitOption
                            "'; the best parameters found are written");
   out.note = "Fitted by sortie fit drive from " + std::filesystem::path(file).filename().string() + " (" +
              std::to_string(rows.size()) + " throttle steps, " + std::to_string(running) +
-             " turning): static CT and CP, duty taken equal to throttle; RMS errors rpm " + fixed(out.rms_rpm_pct, 2) +
+             " turning): static CT and CP, duty = throttle × duty_max; RMS errors rpm " + fixed(out.rms_rpm_pct, 2) +
              " %, thrust " + fixed(out.rms_thrust_pct, 2) + " %, bus power " + fixed(out.rms_power_pct, 2) +
              " %. An estimate from measurements, not a rating.";
   return out;

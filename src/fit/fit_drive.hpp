@@ -4,9 +4,9 @@
 /// CT and CP of the prop, by bounded Levenberg–Marquardt (fit/levenberg_marquardt).
 ///
 /// The model is the one `sortie drive` and `sortie fly` run (DESIGN.md "Physics — Propulsion"),
-/// at J = 0 with a constant I0, and with the ESC's duty taken equal to the throttle command
-/// (d = throttle/100: a linear throttle response, common practice on a bench with the ESC's
-/// throttle curve left linear):
+/// at J = 0 with a constant I0, and with the ESC's duty following the throttle command as
+/// `sortie drive` reads it, d = duty_max·throttle/100 (a linear throttle response, common
+/// practice on a bench with the ESC's throttle curve left linear; duty_max 1 unless given):
 ///   V_m = d·V_bus;  Q = CP·ρ·n²·D⁵/(2π);  I_m = I0 + Kv·Q;  ω = (V_m − I_m·Rm)·Kv
 ///   so ω solves Kv²·Rm·c·ω² + ω − Kv·(V_m − Rm·I0) = 0, c = CP·ρ·D⁵/(2π)³   (a stalled motor
 ///   below V_m = Rm·I0: ω = 0, I_m = V_m/Rm)
@@ -33,7 +33,7 @@ struct DriveFitOptions {
   std::string file;             ///< the bench file, for names and messages
   std::optional<double> motor_i_max_A;
   std::optional<double> esc_i_max_A;
-  std::optional<double> duty_max;
+  std::optional<double> duty_max;  ///< the ESC's highest duty (default 1: throttle 100 % = full duty)
   int max_iterations = 400;
 };
 
