@@ -4,13 +4,15 @@
 /// Steps (each in its own header):
 ///  1. SoC by Coulomb counting from full/empty points; capacity from a full discharge (fit/soc).
 ///  2. R0 first guess from the voltage step at current steps, R0 = −ΔV/ΔI (fit/rc_fit).
-///  3. OCV from rest ends, first with the step R0 only (fit/ocv).
-///  4. Constant R0, R_p, τ_p by Levenberg–Marquardt from several starting τ (fit/rc_fit).
-///  5. Tables over SoC bands, started from the constants; then OCV rebuilt from rest ends and
-///     low-rate loaded rows corrected by the model's drop, and the tables refitted (twice).
-///  6. Per band: standard errors from the Gauss–Newton covariance σ²·(JᵀJ)⁻¹; bands without a
-///     current step or with loose estimates are reported as having too little excitation. When
-///     fewer than two bands are excited the constants are written instead of tables.
+///  3. A first OCV from rest ends and low-rate rows corrected by the step R0 (fit/ocv).
+///  4. Constant R0, R_p, τ_p and the OCV on a 1 % SoC grid, fitted together by Levenberg–Marquardt
+///     from several starting τ (fit/rc_fit); long charges and the rests after them are not
+///     counted (charge-side hysteresis).
+///  5. Tables over SoC knots placed at the current steps, started from the constants, the OCV
+///     refitted with them; time constants per band only where they beat the voltage resolution.
+///  6. Per band: standard errors from the Gauss–Newton covariance σ²·(JᵀJ)⁻¹; bands with loose
+///     estimates, and SoC stretches without current steps, are reported as having too little
+///     excitation. When fewer than two bands are excited the constants are written instead.
 #include <array>
 #include <optional>
 #include <string>

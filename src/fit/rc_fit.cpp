@@ -299,36 +299,6 @@ std::array<double, 2> RcProblem::information_scale(const RcSolution& s) const {
   return {rc, oc};
 }
 
-RcTrace RcProblem::trace(const RcTables& t) const {
-  RcTrace out;
-  const std::size_t n = rows_.size();
-  out.v_drop_V.resize(n);
-  out.v_rc_V.resize(n);
-  const bool one = knots_.size() == 1;
-  std::array<double, 2> v{0.0, 0.0};
-  for (std::size_t k = 0; k < n; ++k) {
-    const Row& r = rows_[k];
-    if (r.restart) {
-      v = {0.0, 0.0};
-    } else {
-      const std::size_t ja = r.j1, jb = one ? r.j1 : r.j1 + 1;
-      const double wa = one ? 1.0 : 1.0 - r.w1, wb = one ? 0.0 : r.w1;
-      for (int p = 0; p < n_rc_; ++p) {
-        const double R = wa * t.r_ohm[p][ja] + wb * t.r_ohm[p][jb];
-        const double tau = wa * t.tau_s[p][ja] + wb * t.tau_s[p][jb];
-        const double a = std::exp(-r.dt / tau);
-        v[p] = R * r.i + a * (v[p] - R * r.i);
-      }
-    }
-    const std::size_t ja = r.j0, jb = one ? r.j0 : r.j0 + 1;
-    const double wa = one ? 1.0 : 1.0 - r.w0, wb = one ? 0.0 : r.w0;
-    const double r0 = wa * t.r0_ohm[ja] + wb * t.r0_ohm[jb];
-    out.v_rc_V[k] = v[0] + v[1];
-    out.v_drop_V[k] = r0 * r.i + v[0] + v[1];  // V = OCV − drop
-  }
-  return out;
-}
-
 LmResult RcProblem::solve(const RcSolution& start, const RcBounds& b, const LmOptions& opts) const {
   Eigen::VectorXd lo(n_free()), hi(n_free());
   for (std::size_t j = 0; j < knots_.size(); ++j) {

@@ -59,12 +59,6 @@ struct RcSolution {
   std::vector<double> ocv_V;  ///< on the problem's OCV grid (empty with a fixed OCV)
 };
 
-/// What the model says at each row.
-struct RcTrace {
-  std::vector<double> v_drop_V;   ///< R0·I + v1 + v2: the model's V = OCV − drop
-  std::vector<double> v_rc_V;     ///< v1 + v2
-};
-
 class RcProblem {
  public:
   /// `ocv` is the OCV when it is held (see free_ocv); rows with use[k] == 0 are simulated but
@@ -102,7 +96,6 @@ class RcProblem {
   /// The largest diagonal entry of the data's JᵀJ over the RC parameters, and over the OCV
   /// values (for choosing penalty weights).
   std::array<double, 2> information_scale(const RcSolution& s) const;
-  RcTrace trace(const RcTables& t) const;
 
   /// Fit from `start` (a shared value starts at the mean of its knots' logs; a missing OCV at
   /// the held table on the grid).

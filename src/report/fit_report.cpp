@@ -53,9 +53,10 @@ std::string fit_cell_text(const fit::CellLog& log, const fit::CellFitResult& r,
                                    " to " + fixed(r.temperature_max_C, 1) + " °C)");
   for (const auto& a : se.anchors) kv.add("known SoC point", std::string(anchor_words(a.kind)) + ", " + where(log, r, a.row));
   kv.add("capacity", fixed(se.capacity_Ah, 3) + " Ah, " + se.capacity_source);
-  kv.add("OCV", std::to_string(r.ocv_rest_points) + " rest ends and " + std::to_string(r.ocv_loaded_points) +
-                    " low-rate rows; table of " + std::to_string(r.cell.ocv_V.size()) + " points, " +
-                    fixed(r.cell.ocv_V.y().front(), 3) + " V to " + fixed(r.cell.ocv_V.y().back(), 3) + " V");
+  kv.add("OCV", "fitted with the RC pairs, from " + std::to_string(r.ocv_rest_points) + " rest ends and " +
+                    std::to_string(r.ocv_loaded_points) + " low-rate rows to start; table of " +
+                    std::to_string(r.cell.ocv_V.size()) + " points, " + fixed(r.cell.ocv_V.y().front(), 3) + " V to " +
+                    fixed(r.cell.ocv_V.y().back(), 3) + " V");
   kv.add("parameters", std::to_string(r.n_rc) + " RC pair" + (r.n_rc == 1 ? "" : "s") + ", " +
                            (r.tables ? "tables over " + std::to_string(r.bands.size()) + " SoC bands" : std::string("constants")) +
                            ", from " + std::to_string(r.steps) + " current steps; " + std::to_string(r.iterations) +
