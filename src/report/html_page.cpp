@@ -1,5 +1,7 @@
 #include "report/html_page.hpp"
 
+#include <cstdio>
+
 #include "report/svg_plot.hpp"
 
 namespace sortie::report::html {
@@ -50,6 +52,7 @@ figcaption { font-weight: bold; margin: 0 0 4px; }
 p.note { font-size: 13px; color: var(--muted); margin: 6px 0 0; }
 svg.plot { display: block; width: 100%; height: auto; }
 .grid3 { display: grid; grid-template-columns: repeat(3, minmax(0, 1fr)); gap: 14px; }
+.grid2 { display: grid; grid-template-columns: repeat(2, minmax(0, 1fr)); gap: 14px; }
 dl.facts { display: grid; grid-template-columns: max-content 1fr; gap: 3px 16px; margin: 0; }
 dl.facts dt { color: var(--muted); }
 dl.facts dd { margin: 0; }
@@ -70,7 +73,7 @@ footer { color: var(--muted); font-size: 13px; }
   .scroll { overflow: visible; }
   table { font-size: 8pt; }
   th, td { padding: 2px 5px; }
-  .grid3 { gap: 4mm; }
+  .grid3, .grid2 { gap: 4mm; }
   .verdict, .card, th, tr.fail td, .cautions { -webkit-print-color-adjust: exact; print-color-adjust: exact; }
   .cautions { border: 1.5pt solid var(--warn); padding: 3mm 4mm; }
 }
@@ -85,6 +88,16 @@ std::string esc(const std::string& s) { return svg::escape(s); }
 std::string keyed(const std::string& key, const std::string& text, const std::string& unit) {
   return "<span data-key=\"" + esc(key) + "\"" + (unit.empty() ? "" : " data-unit=\"" + esc(unit) + "\"") + ">" +
          esc(text) + "</span>";
+}
+
+std::string keyed_scaled(const std::string& key, const std::string& text, double scale) {
+  char buf[32];
+  std::snprintf(buf, sizeof buf, "%g", scale);
+  return "<span data-key=\"" + esc(key) + "\" data-scale=\"" + buf + "\">" + esc(text) + "</span>";
+}
+
+Cell scaled_cell(const std::string& text, const std::string& key, double scale) {
+  return {keyed_scaled(key, text, scale), true, ""};
 }
 
 Cell text_cell(const std::string& text) { return {esc(text), false, ""}; }

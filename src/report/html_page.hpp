@@ -16,6 +16,9 @@ std::string esc(const std::string& s);
 /// its unit (in a table whose header names it) gives the unit as `unit`: data-unit="%" says
 /// the JSON holds the fraction of the percentage shown.
 std::string keyed(const std::string& key, const std::string& text, const std::string& unit = "");
+/// The same for a number shown in another unit than the JSON's: data-scale="1000" says the
+/// printed number is the JSON value times 1000 (mV for V, mΩ for Ω).
+std::string keyed_scaled(const std::string& key, const std::string& text, double scale);
 
 /// One table cell: HTML content (already escaped), right-aligned when a number.
 struct Cell {
@@ -25,6 +28,7 @@ struct Cell {
 };
 Cell text_cell(const std::string& text);
 Cell number_cell(const std::string& text, const std::string& key = "", const std::string& unit = "");
+Cell scaled_cell(const std::string& text, const std::string& key, double scale);
 Cell html_cell(std::string html, bool number = false, std::string css = "");
 
 class Table {

@@ -12,6 +12,7 @@
 #include "report/html_compare.hpp"
 #include "report/html_discharge.hpp"
 #include "report/html_drive.hpp"
+#include "report/html_fit.hpp"
 #include "report/html_fly.hpp"
 #include "support/cli.hpp"
 #include "support/report_keys.hpp"
@@ -152,6 +153,29 @@ TEST_CASE("discharge --html: voltage and charge, current and power") {
   CHECK(p.exit_code == 0);
   CHECK(plot_ids(p.x) == promised(sortie::report::kDischargePlots));
   CHECK(has_key(p.keys, "time_to_end_s"));
+}
+
+TEST_CASE("fit cell --html: voltage, error, OCV and resistance plots, numbers equal to --json") {
+  const Page p = page_of({"fit", "cell", source_path("models/logs/demo-hppc-synthetic.csv"), "--out",
+                          work_path("fit-cell-model.json")},
+                         "fit-cell");
+  CHECK(p.exit_code == 0);
+  CHECK(plot_ids(p.x) == promised(sortie::report::kFitCellPlots));
+  for (const char* k : {"voltage_rmse_V", "voltage_max_error_V", "soc.capacity_Ah", "bands.0.r0_ohm",
+                        "bands.0.rc.1.tau_s"})
+    CHECK_MESSAGE(has_key(p.keys, k), k);
+  CHECK(curves_in(p.x, "fit-cell-voltage") == 2);  // measured and model
+}
+
+TEST_CASE("fit drive --html: thrust, power, residual and efficiency plots, numbers equal to --json") {
+  const Page p = page_of({"fit", "drive", source_path("models/logs/demo-bench-synthetic.csv"), "--out",
+                          work_path("fit-drive-model.json"), "--diameter-m", "0.381"},
+                         "fit-drive");
+  CHECK(p.exit_code == 0);
+  CHECK(plot_ids(p.x) == promised(sortie::report::kFitDrivePlots));
+  for (const char* k : {"rms_power_pct", "parameters.Kv.value", "parameters.Rm.se_rel", "points.5.measured.rpm",
+                        "points.5.model.bus_W", "points.5.error_pct.bus_power"})
+    CHECK_MESSAGE(has_key(p.keys, k), k);
 }
 
 TEST_CASE("--html: bad input writes no page at all") {

@@ -3,7 +3,7 @@
 // each such number with data-key="<path>" (dots between JSON keys, array indexes, or a rule's
 // name inside "rules"); the printed text is a number with its decimals and an optional unit.
 // A "%" unit (in the text or in data-unit) means the JSON holds the fraction, unless the key
-// itself ends in _pct. The check formats the JSON value with the printed number of decimals
+// itself ends in _pct; data-scale="1000" gives any other factor (mV shown for V). The check formats the JSON value with the printed number of decimals
 // (report::fixed, as the report does) and wants the same digits.
 #include <nlohmann/json.hpp>
 #include <regex>
@@ -79,7 +79,8 @@ inline KeyCheck check_keys(const XmlCheck& doc, const nlohmann::json& j) {
     std::string unit = m[5].str();
     if (auto u = e.attrs.find("data-unit"); u != e.attrs.end()) unit = u->second;
     const bool pct_key = key.size() > 4 && key.compare(key.size() - 4, 4, "_pct") == 0;
-    const double scale = unit.rfind('%', 0) == 0 && !pct_key ? 100.0 : 1.0;
+    double scale = unit.rfind('%', 0) == 0 && !pct_key ? 100.0 : 1.0;
+    if (auto s = e.attrs.find("data-scale"); s != e.attrs.end()) scale = std::stod(s->second);
     const std::string printed = (m[1] == "-" ? "-" : "") + m[2].str() + (m[3].matched ? m[3].str() : "");
     const std::string expected = report::fixed(v->get<double>() * scale, decimals);
     if (printed != expected)
