@@ -180,6 +180,11 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
   const std::vector<double>& soc = out.soc;
   const double Q = se.capacity_Ah;
   const std::vector<char> use = rows_to_count(log, se);
+  const std::size_t counted = static_cast<std::size_t>(std::count(use.begin(), use.end(), 1));
+  if (counted < 10)
+    throw InputError(log.file + ": only " + std::to_string(counted) +
+                     " rows outside long charges (got a log that is almost all charging, expected discharges, pulses "
+                     "or rests: charge rows sit on the other branch of the OCV hysteresis and are not fitted)");
 
   // --- 2. steps and the first R0 ---
   const std::vector<CurrentStep> steps = find_current_steps(log, soc, min_step);

@@ -6,6 +6,7 @@
 #include <cmath>
 
 #include "core/error.hpp"
+#include "fit/fit_cell.hpp"
 #include "fit/ocv.hpp"
 #include "fit/soc.hpp"
 
@@ -113,6 +114,14 @@ TEST_CASE("ocv: rests are found with their duration from the end of the load") {
   REQUIRE(rests.size() == 3);  // the first row, the long rest, the short one
   CHECK(rests[1].duration_s == doctest::Approx(400.0));
   CHECK(rests[2].duration_s == doctest::Approx(30.0));
+}
+
+TEST_CASE("fit cell: a log that is all charge is refused, not fitted to nothing") {
+  // A CC-CV charge and nothing else: its rows and the rest after it are not counted.
+  const auto log = make_log({{-2.0, 3000, 4.2}, {-1.0, 300, 4.2}, {-0.2, 300, 4.2}, {0.0, 600, 4.15}}, 3.3);
+  fit::CellFitOptions o;
+  o.soc.capacity_Ah = 2.0;
+  CHECK_THROWS_WITH_AS(fit::fit_cell(log, o), doctest::Contains("log.csv: only 1 rows outside long charges"), InputError);
 }
 
 }  // TEST_SUITE
