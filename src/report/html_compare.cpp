@@ -106,7 +106,7 @@ std::string compare_html(const sim::Mission& base, const std::vector<sim::Compar
   page.section("Packs side by side", plots);
 
   html::Table t({"rank", "pack", "verdict", "spare s", "flight time s", "landing SoC %", "pack kg", "all-up kg",
-                 "max C-rate", "duty mean %", "ESC η mean %", "limit"});
+                 "max C‑rate", "duty mean %", "ESC η mean %", "limit"});
   for (std::size_t i = 0; i < rows.size(); ++i) {
     const auto& row = rows[i];
     const auto& r = row.result;

@@ -220,7 +220,7 @@ std::string rules_table(const sim::MissionResult& r) {
 
 std::string phases_table(const sim::Mission& m, const sim::MissionResult& r) {
   html::Table t({"phase", "start s", "time s", "distance m", "thrust/rotor N", "energy Wh", "charge Ah", "min cell V",
-                 "max current A", "max C-rate C", "duty mean %", "duty max %", "η drive %"});
+                 "max current A", "max C‑rate C", "duty mean %", "duty max %", "η drive %"});
   for (std::size_t i = 0; i < r.phases.size(); ++i) {
     const auto& p = r.phases[i];
     const std::string k = "phases." + std::to_string(i) + ".";

@@ -72,7 +72,11 @@ footer { color: var(--muted); font-size: 13px; }
   h2 { break-after: avoid; }
   .scroll { overflow: visible; }
   table { font-size: 8pt; }
-  th, td { padding: 2px 5px; }
+  table.wide { font-size: 7pt; }
+  th, td { padding: 2px 4px; }
+  td:first-child { white-space: normal; }
+  svg.plot .ticks, svg.plot .levels { font-size: 17px; }
+  svg.plot .axis-labels { font-size: 18px; }
   .grid3, .grid2 { gap: 4mm; }
   .verdict, .card, th, tr.fail td, .cautions { -webkit-print-color-adjust: exact; print-color-adjust: exact; }
   .cautions { border: 1.5pt solid var(--warn); padding: 3mm 4mm; }
