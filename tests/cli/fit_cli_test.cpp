@@ -148,7 +148,7 @@ TEST_CASE("fit drive: the bundled synthetic bench gives a drive that sortie driv
   CHECK_MESSAGE(run.exit_code == 0, run.err);
 }
 
-TEST_CASE("fit drive: no diameter is bad usage, too few steps bad input") {
+TEST_CASE("fit drive: no diameter is bad usage and too few steps bad input") {
   const std::string out = work_path("drive-refused.json");
   const auto u = run_sortie({"fit", "drive", source_path(kDemoBenchFile), "--out", out});
   CHECK(u.exit_code == 2);

@@ -51,7 +51,7 @@ SocMap soc_map(const fit::CellFitResult& r, const sim::SyntheticLog& s) {
 
 TEST_SUITE("fit") {
 
-TEST_CASE("fit cell: a synthetic pulse test gives back R0 (2 %), each tau (10 %) and the OCV (5 mV)") {
+TEST_CASE("fit cell: a synthetic pulse test gives back R0 within 2 % and each tau within 10 % and the OCV within 5 mV") {
   const battery::Cell truth = io::load_cell_file(test::source_path(test::kDemoLogCell));
   for (const std::uint64_t seed : {std::uint64_t{20240611}, std::uint64_t{7}, std::uint64_t{1234567}}) {
     MESSAGE("seed " << seed);

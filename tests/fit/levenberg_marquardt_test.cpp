@@ -27,7 +27,7 @@ fit::LeastSquaresProblem from_residuals(std::function<Eigen::VectorXd(const Eige
 
 TEST_SUITE("fit") {
 
-TEST_CASE("levenberg-marquardt: Rosenbrock's valley from (-1.2, 1) to (1, 1)") {
+TEST_CASE("levenberg-marquardt: Rosenbrock's valley from the classic start to its minimum at x = y = 1") {
   // f = 100·(y − x²)² + (1 − x)² as residuals 10·(y − x²), 1 − x; minimum 0 at (1, 1)
   // (H. H. Rosenbrock, Computer Journal 3, 1960; the classic start point −1.2, 1).
   const auto f = from_residuals(
@@ -88,7 +88,7 @@ TEST_CASE("levenberg-marquardt: a minimum outside the box ends on the bound") {
   CHECK(r.status == fit::LmStatus::converged);
 }
 
-TEST_CASE("levenberg-marquardt: the iteration cap is reported, with the best point so far") {
+TEST_CASE("levenberg-marquardt: the iteration cap is reported with the best point so far") {
   const auto f = from_residuals(
       [](const Eigen::VectorXd& x) { return Eigen::Vector2d(10.0 * (x[1] - x[0] * x[0]), 1.0 - x[0]); },
       [](const Eigen::VectorXd& x) {

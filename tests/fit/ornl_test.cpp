@@ -73,7 +73,7 @@ struct Check {
 
 TEST_SUITE("ornl") {
 
-TEST_CASE("ornl: a model fitted on the 25 °C pulse test runs the measured 1C, 2C and 3C discharges") {
+TEST_CASE("ornl: a model fitted on the 25 °C pulse test runs the measured discharges at 1C to 3C") {
   if (!have_data()) {
     MESSAGE("open dataset folder missing: " << kDir << " (the ORNL checks need ../shared/data/ornl-pouch-33Ah/)");
     WARN_MESSAGE(false, "skipped: " << kDir << " is absent");

@@ -73,7 +73,7 @@ TEST_CASE("rc fit: the forward-sensitivity Jacobian matches central differences"
   }
 }
 
-TEST_CASE("rc fit: noise-free data give the model's R0 table, RC pairs and OCV back") {
+TEST_CASE("rc fit: noise-free data give the model's R0 table and RC pairs and OCV back") {
   const Case c = noise_free();
   const std::vector<double> knots = tenths();
   fit::RcProblem p(c.log, c.s.soc_true, c.cell.ocv_V, knots, 2);

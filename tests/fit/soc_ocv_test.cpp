@@ -77,7 +77,7 @@ TEST_CASE("soc: no full or empty point is an error unless --soc0 is given") {
   CHECK(se.soc.back() == doctest::Approx(0.6 - 120.0 / 3600.0));
 }
 
-TEST_CASE("ocv: rest points set the level, the loaded curve the shape between them") {
+TEST_CASE("ocv: rest points set the level and the loaded curve the shape between them") {
   // True OCV 3.5 + 0.6·s + 0.1·sin(6s); rests at 0.2 and 0.8 exact; loaded points 15 mV low
   // (the drop left in them) — the shift through the rests removes that.
   auto ocv = [](double s) { return 3.5 + 0.6 * s + 0.1 * std::sin(6 * s); };
@@ -116,7 +116,7 @@ TEST_CASE("ocv: rests are found with their duration from the end of the load") {
   CHECK(rests[2].duration_s == doctest::Approx(30.0));
 }
 
-TEST_CASE("fit cell: a log that is all charge is refused, not fitted to nothing") {
+TEST_CASE("fit cell: a log that is all charge is refused rather than fitted to nothing") {
   // A CC-CV charge and nothing else: its rows and the rest after it are not counted.
   const auto log = make_log({{-2.0, 3000, 4.2}, {-1.0, 300, 4.2}, {-0.2, 300, 4.2}, {0.0, 600, 4.15}}, 3.3);
   fit::CellFitOptions o;

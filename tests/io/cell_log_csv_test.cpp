@@ -45,14 +45,14 @@ TEST_CASE("cell log: header names with units in brackets are recognised") {
   CHECK(log.section_starts == std::vector<std::size_t>{0});
 }
 
-TEST_CASE("cell log: mA, mV and ms declared in the header are converted") {
+TEST_CASE("cell log: mA and mV and ms declared in the header are converted") {
   const auto log = read("t [ms],I_mA,U (mV)\n0,0,3800\n1000,2000,3780\n2000,2000,3779\n3000,0,3799\n");
   CHECK(log.time_s[1] == doctest::Approx(1.0));
   CHECK(log.current_A[1] == doctest::Approx(2.0));
   CHECK(log.voltage_V[1] == doctest::Approx(3.780));
 }
 
-TEST_CASE("cell log: undeclared mV and ms are detected, and said so") {
+TEST_CASE("cell log: undeclared mV and ms are detected and said so") {
   const auto log = read("time,current,voltage\n0,0,3800\n1000,2,3780\n2000,2,3779\n3000,0,3799\n");
   CHECK(log.voltage_V[0] == doctest::Approx(3.8));
   CHECK(log.time_s[3] == doctest::Approx(3.0));
@@ -62,7 +62,7 @@ TEST_CASE("cell log: undeclared mV and ms are detected, and said so") {
   CHECK(all.find("read as ms") != std::string::npos);
 }
 
-TEST_CASE("cell log: semicolons with decimal commas, and a preamble before the header") {
+TEST_CASE("cell log: semicolons with decimal commas and a preamble before the header") {
   const auto log = read("Test: bench 3\nOperator;x\nZeit;Strom;Spannung;Time (s);Current (A);Voltage (V)\n"
                         "a;b;c;0;0;3,800\na;b;c;1,5;2,5;3,775\na;b;c;3;0;3,799\n");
   REQUIRE(log.size() == 3);
@@ -74,7 +74,7 @@ TEST_CASE("cell log: semicolons with decimal commas, and a preamble before the h
   CHECK(l2.current_A[1] == doctest::Approx(2.5));
 }
 
-TEST_CASE("cell log: excluded rows, blank fields and trailing commas") {
+TEST_CASE("cell log: excluded rows and blank fields and trailing commas") {
   const auto log = read("Exclude,Time(s),Current(A),Voltage(V),Temp(C),\n"
                         "No,0,0,3.800,25,\nYes,1,99,0.1,,\nNo,2,2,3.780,,\nNo,3,,3.780,26,\nNo,4,0,3.799,27,\n");
   REQUIRE(log.size() == 3);  // the excluded row and the one with no current are left out
@@ -104,7 +104,7 @@ TEST_CASE("cell log: clock times and dates are read as seconds") {
   CHECK_FALSE(io::parse_log_time("12:75", false));
 }
 
-TEST_CASE("cell log: without a header, columns by number; the current sign as given") {
+TEST_CASE("cell log: without a header the columns are given by number and the current sign as given") {
   io::CellLogOptions o;
   o.columns = io::parse_column_spec("time=2,current=4,voltage=3", io::cell_log_quantities());
   o.discharge_positive = false;
@@ -131,7 +131,7 @@ TEST_CASE("cell log: a pack log is scaled to one cell by --series and --parallel
   CHECK(log.current_A[1] == doctest::Approx(2.0));
 }
 
-TEST_CASE("cell log: bad logs are one-line errors naming the file, line and value") {
+TEST_CASE("cell log: bad logs are one-line errors naming the file and line and value") {
   CHECK(error_of("time,current\n0,1\n1,2\n").find("no header line naming the time, current and voltage") !=
         std::string::npos);
   const std::string e = error_of("time,current,voltage\n0,0,3.8\n1,abc,3.7\n");
@@ -145,7 +145,7 @@ TEST_CASE("cell log: bad logs are one-line errors naming the file, line and valu
   for (const auto& m : {error_of("time,current\n0,1\n"), e}) CHECK(m.find('\n') == std::string::npos);
 }
 
-TEST_CASE("cell log: --columns is checked, with the nearest quantity suggested") {
+TEST_CASE("cell log: --columns is checked with the nearest quantity suggested") {
   const auto q = io::cell_log_quantities();
   CHECK_THROWS_WITH_AS(io::parse_column_spec("volts=3", q), doctest::Contains("did you mean 'voltage'"), UsageError);
   CHECK_THROWS_AS(io::parse_column_spec("time", q), UsageError);
