@@ -86,7 +86,8 @@ int run_fit_cell(const FitCellOptions& o) {
   const sim::ReplayResult rep = sim::replay(pack, cl);
   std::vector<double> centres;
   for (const auto& b : r.bands) centres.push_back(b.soc);
-  const fit::VoltageErrors err = fit::voltage_errors(log.voltage_V, rep.v_terminal_V, r.soc, centres);
+  fit::VoltageErrors err = fit::voltage_errors(log.voltage_V, rep.v_terminal_V, r.soc, centres);
+  err.counted = fit::voltage_error_where(log.voltage_V, rep.v_terminal_V, r.counted);
 
   // Everything is computed before anything is written.
   const std::string model_text = model.dump(2) + "\n";

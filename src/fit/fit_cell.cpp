@@ -180,6 +180,7 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
   const std::vector<double>& soc = out.soc;
   const double Q = se.capacity_Ah;
   const std::vector<char> use = rows_to_count(log, se);
+  out.counted = use;
   const std::size_t counted = static_cast<std::size_t>(std::count(use.begin(), use.end(), 1));
   if (counted < 10)
     throw InputError(log.file + ": only " + std::to_string(counted) +

@@ -63,6 +63,7 @@ struct CellFitResult {
   double temperature_mean_C = 0.0, temperature_min_C = 0.0, temperature_max_C = 0.0;
   bool has_temperature = false;
   std::vector<double> soc;    ///< per row
+  std::vector<char> counted;  ///< per row: 1 where the fit counts the row (not a long charge)
   SocEstimate soc_estimate;
   // OCV.
   std::size_t rests = 0, ocv_rest_points = 0, ocv_loaded_points = 0;

@@ -50,4 +50,13 @@ VoltageErrors voltage_errors(const std::vector<double>& measured, const std::vec
   return out;
 }
 
+VoltageError voltage_error_where(const std::vector<double>& measured, const std::vector<double>& model,
+                                 const std::vector<char>& rows) {
+  assert(measured.size() == model.size() && rows.size() == model.size());
+  Acc a;
+  for (std::size_t k = 0; k < measured.size(); ++k)
+    if (rows[k]) a.add(k, model[k] - measured[k]);
+  return a.done();
+}
+
 }  // namespace sortie::fit

@@ -16,6 +16,7 @@ struct VoltageError {
 
 struct VoltageErrors {
   VoltageError all;
+  VoltageError counted;             ///< over the rows the fit counts (set by the caller)
   std::vector<VoltageError> bands;  ///< one per band centre, rows nearest to it by SoC
 };
 
@@ -23,5 +24,9 @@ struct VoltageErrors {
 /// nearest. `band_centres` may be empty.
 VoltageErrors voltage_errors(const std::vector<double>& measured, const std::vector<double>& model,
                              const std::vector<double>& soc, const std::vector<double>& band_centres);
+
+/// The errors over the rows with rows[k] != 0 only (no bands).
+VoltageError voltage_error_where(const std::vector<double>& measured, const std::vector<double>& model,
+                                 const std::vector<char>& rows);
 
 }  // namespace sortie::fit

@@ -64,6 +64,11 @@ std::string fit_cell_text(const fit::CellLog& log, const fit::CellFitResult& r,
   kv.add("voltage RMSE", fixed(1000.0 * e.all.rmse_V, 1) + " mV over " + std::to_string(e.all.rows) +
                              " rows (the written model re-simulated on the log's current)");
   kv.add("largest error", fixed(1000.0 * e.all.max_abs_V, 1) + " mV at " + where(log, r, e.all.max_row));
+  if (e.counted.rows > 0 && e.counted.rows < e.all.rows)
+    kv.add("rows fitted", "RMSE " + fixed(1000.0 * e.counted.rmse_V, 1) + " mV, largest " +
+                              fixed(1000.0 * e.counted.max_abs_V, 1) + " mV over the " + std::to_string(e.counted.rows) +
+                              " rows the fit counts (long charges and the rests after them are left out: the OCV "
+                              "on charge lies higher, by hysteresis)");
   kv.add("mean error", fixed(1000.0 * e.all.mean_V, 1) + " mV (model minus measured)");
   out += kv.render();
 
@@ -135,6 +140,9 @@ nlohmann::ordered_json fit_cell_json(const fit::CellLog& log, const fit::CellFit
   j["voltage_max_error_V"] = e.all.max_abs_V;
   j["voltage_max_error_line"] = e.all.rows ? log.line[e.all.max_row] : 0;
   j["voltage_mean_error_V"] = e.all.mean_V;
+  j["counted_rows"] = e.counted.rows;
+  j["counted_voltage_rmse_V"] = e.counted.rmse_V;
+  j["counted_voltage_max_error_V"] = e.counted.max_abs_V;
   nlohmann::ordered_json bands = nlohmann::ordered_json::array();
   for (std::size_t b = 0; b < r.bands.size(); ++b) {
     const auto& band = r.bands[b];
