@@ -77,6 +77,8 @@ TEST_CASE("fit cell: the bundled synthetic log gives a model that loads and runs
   const json j = json::parse(read_file(js));
   CHECK(j["schema"] == "sortie.fit_cell/1");
   CHECK(j["voltage_rmse_V"].get<double>() < 0.01);
+  CHECK(j["counted_voltage_rmse_V"].get<double>() < 0.005);
+  CHECK(j["counted_rows"].get<std::size_t>() > 10000);
   CHECK(j["bands"].size() >= 2);
   CHECK(read_file(trace).rfind("time_s,line,current_A,v_measured_V,v_model_V,error_mV,soc\n", 0) == 0);
   // The fitted cell in a 4S pack runs a discharge (the path to a mission).
