@@ -6,6 +6,7 @@
 #include <limits>
 
 #include "core/error.hpp"
+#include "core/text.hpp"
 #include "fit/ocv.hpp"
 #include "fit/rc_fit.hpp"
 
@@ -14,12 +15,6 @@ namespace sortie::fit {
 namespace {
 
 const double kNaN = std::numeric_limits<double>::quiet_NaN();
-
-std::string fixed(double v, int d) {
-  char b[64];
-  std::snprintf(b, sizeof b, "%.*f", d, v);
-  return b;
-}
 
 double median(std::vector<double> v) {
   if (v.empty()) return kNaN;
@@ -152,7 +147,7 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
   }
   const double min_step = 0.05 * imax;
   if (!changes || find_current_steps(log, std::vector<double>(n, 0.5), min_step).empty())
-    throw InputError(log.file + ": the current never changes (got " + fixed(ifirst, 3) + " A in every row" +
+    throw InputError(log.file + ": the current never changes (got " + format_fixed(ifirst, 3) + " A in every row" +
                      (changes ? " within 5 %" : "") +
                      ", expected current steps such as pulses or rests): R0 and the RC pairs cannot be "
                      "told apart from the open-circuit voltage");
@@ -167,7 +162,7 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
       out.temperature_min_C = lo;
       out.temperature_max_C = hi;
       if (hi - lo > 10.0)
-        out.warnings.push_back("the cell temperature spans " + fixed(lo, 1) + " to " + fixed(hi, 1) +
+        out.warnings.push_back("the cell temperature spans " + format_fixed(lo, 1) + " to " + format_fixed(hi, 1) +
                                " °C: one set of parameters is fitted for all of it");
     }
   }
@@ -217,11 +212,11 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
   }
   if (rest_pts.empty()) {
     if (loaded_pts.empty())
-      throw InputError(log.file + ": no rest of " + fixed(opts.rest_min_s, 0) +
-                       " s or more and no steady low-rate discharge (at most " + fixed(opts.low_rate_C, 2) +
+      throw InputError(log.file + ": no rest of " + format_fixed(opts.rest_min_s, 0) +
+                       " s or more and no steady low-rate discharge (at most " + format_fixed(opts.low_rate_C, 2) +
                        " C), so the open-circuit voltage cannot be measured (got the longest rest " +
-                       fixed(longest_rest, 0) + " s, expected rests or a slow discharge)");
-    out.warnings.push_back("no rest of " + fixed(opts.rest_min_s, 0) + " s or more (longest " + fixed(longest_rest, 0) +
+                       format_fixed(longest_rest, 0) + " s, expected rests or a slow discharge)");
+    out.warnings.push_back("no rest of " + format_fixed(opts.rest_min_s, 0) + " s or more (longest " + format_fixed(longest_rest, 0) +
                            " s): the OCV is fitted from the loaded voltage alone, which leaves hysteresis in it; log "
                            "rests for a better model");
   }
@@ -338,8 +333,8 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
         tables = per_band;
       } else {
         out.notes.push_back("time constants shared by all SoC bands: one per band lowered the fit RMSE from " +
-                            fixed(1000.0 * rmse_shared, 2) + " to " + fixed(1000.0 * rmse_band, 2) +
-                            " mV only (voltage resolution " + fixed(1000.0 * resolution, 2) + " mV)");
+                            format_fixed(1000.0 * rmse_shared, 2) + " to " + format_fixed(1000.0 * rmse_band, 2) +
+                            " mV only (voltage resolution " + format_fixed(1000.0 * resolution, 2) + " mV)");
       }
     }
   }
@@ -397,10 +392,10 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
       for (int p = 0; p < nrc; ++p) loose = loose || b.se_r[p] > 0.30 || b.se_tau[p] > 0.30;
       if (loose) {
         b.excited = false;
-        b.why = "standard error R0 " + fixed(100 * b.se_r0, 0) + " %";
+        b.why = "standard error R0 " + format_fixed(100 * b.se_r0, 0) + " %";
         for (int p = 0; p < nrc; ++p)
-          b.why += ", R" + std::to_string(p + 1) + " " + fixed(100 * b.se_r[p], 0) + " %, tau" +
-                   std::to_string(p + 1) + " " + fixed(100 * b.se_tau[p], 0) + " %";
+          b.why += ", R" + std::to_string(p + 1) + " " + format_fixed(100 * b.se_r[p], 0) + " %, tau" +
+                   std::to_string(p + 1) + " " + format_fixed(100 * b.se_tau[p], 0) + " %";
       }
       if (b.excited) ++excited;
       bands.push_back(b);
@@ -438,13 +433,13 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
     for (std::size_t i = 0; i + 1 < edges.size(); ++i) {
       const bool end = i == 0 || i + 2 == edges.size();
       if (edges[i + 1] - edges[i] > (end ? 1.0 : 2.0) * opts.soc_band + 1e-9)
-        out.warnings.push_back("no current steps between SoC " + fixed(edges[i], 2) + " and " + fixed(edges[i + 1], 2) +
+        out.warnings.push_back("no current steps between SoC " + format_fixed(edges[i], 2) + " and " + format_fixed(edges[i + 1], 2) +
                                ": too little excitation there; the parameters follow the nearest band");
     }
   }
   for (const auto& b : out.bands)
     if (!b.excited)
-      out.warnings.push_back("SoC band " + fixed(b.soc_lo, 2) + "-" + fixed(b.soc_hi, 2) +
+      out.warnings.push_back("SoC band " + format_fixed(b.soc_lo, 2) + "-" + format_fixed(b.soc_hi, 2) +
                              ": too little excitation (" + b.why + "); its values follow the neighbouring bands");
   out.iterations = iterations;
   if (out.status != LmStatus::converged)
@@ -454,16 +449,16 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
   for (int p = 0; p < nrc; ++p)
     for (double t : final_t.tau_s[p])
       if (t <= used_bounds.tau_min_s[p] * 1.001 || t >= used_bounds.tau_max_s[p] / 1.001) {
-        out.warnings.push_back("tau" + std::to_string(p + 1) + " reached a bound of the fit (" + fixed(t, 2) +
+        out.warnings.push_back("tau" + std::to_string(p + 1) + " reached a bound of the fit (" + format_fixed(t, 2) +
                                " s): the log may not resolve it");
         break;
       }
 
   // --- OCV: the fitted grid where the data reach, extended linearly beyond ---
   if (s_lo > 0.05)
-    out.warnings.push_back("the log reaches down to SoC " + fixed(s_lo, 3) + " only: the OCV below is extrapolated");
+    out.warnings.push_back("the log reaches down to SoC " + format_fixed(s_lo, 3) + " only: the OCV below is extrapolated");
   if (s_hi < 0.95)
-    out.warnings.push_back("the log reaches up to SoC " + fixed(s_hi, 3) + " only: the OCV above is extrapolated");
+    out.warnings.push_back("the log reaches up to SoC " + format_fixed(s_hi, 3) + " only: the OCV above is extrapolated");
   std::vector<double> g01, v01;
   for (std::size_t o = 0; o < grid.size(); ++o)
     if (grid[o] >= -1e-9 && grid[o] <= 1.0 + 1e-9) g01.push_back(std::clamp(grid[o], 0.0, 1.0)), v01.push_back(final_s.ocv_V[o]);
@@ -495,14 +490,14 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
   c.v_max_V = opts.soc.v_max_V.value_or(std::round(std::max(v_full, ocv.y().back()) * 100.0) / 100.0);
   c.v_cutoff_V = opts.soc.v_cutoff_V.value_or(std::floor(v_empty * 100.0 + 1e-6) / 100.0);
   if (!(c.v_cutoff_V < c.v_max_V))
-    throw InputError(log.file + ": the cutoff voltage is not below the maximum voltage (got " + fixed(c.v_cutoff_V, 3) +
-                     " V and " + fixed(c.v_max_V, 3) +
+    throw InputError(log.file + ": the cutoff voltage is not below the maximum voltage (got " + format_fixed(c.v_cutoff_V, 3) +
+                     " V and " + format_fixed(c.v_max_V, 3) +
                      " V, expected a log that spans a discharge; give --v-max-V and --v-cutoff-V)");
   if (opts.i_cont_max_A) {
     c.i_cont_max_A = *opts.i_cont_max_A;
   } else {
     c.i_cont_max_A = std::ceil(std::max(idis_max, 1e-3) * 10.0) / 10.0;
-    out.notes.push_back("i_cont_max_A set to the largest discharge current in the log, " + fixed(c.i_cont_max_A, 1) +
+    out.notes.push_back("i_cont_max_A set to the largest discharge current in the log, " + format_fixed(c.i_cont_max_A, 1) +
                         " A (give --i-cont-max-A for the maker's limit)");
   }
   if (opts.mass_kg) {
@@ -513,7 +508,7 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
     for (double v : final_s.ocv_V) mean_ocv += v;
     mean_ocv /= static_cast<double>(final_s.ocv_V.size());
     c.mass_kg = std::max(0.001, std::round(Q * mean_ocv / 200.0 * 1000.0) / 1000.0);
-    out.warnings.push_back("mass_kg not given: " + fixed(c.mass_kg, 3) +
+    out.warnings.push_back("mass_kg not given: " + format_fixed(c.mass_kg, 3) +
                            " kg written as a placeholder (200 Wh/kg); weigh the cell and give --mass-kg");
   }
   out.note = "Fitted by sortie fit cell from " + std::filesystem::path(log.file).filename().string() + " (" +
@@ -521,7 +516,7 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
              std::to_string(out.ocv_rest_points) + " rest ends and " + std::to_string(out.ocv_loaded_points) +
              " low-rate rows; " + std::to_string(nrc) + " RC pair(s)" +
              (out.tables ? " as tables over SoC" : " as constants") +
-             (out.has_temperature ? "; at a mean cell temperature of " + fixed(out.temperature_mean_C, 1) + " °C" : "") +
+             (out.has_temperature ? "; at a mean cell temperature of " + format_fixed(out.temperature_mean_C, 1) + " °C" : "") +
              (opts.mass_kg ? "" : "; mass_kg is a placeholder") + ". An estimate from measurements, not a rating.";
   return out;
 }

@@ -8,6 +8,7 @@
 #include <numbers>
 
 #include "core/error.hpp"
+#include "core/text.hpp"
 #include "propulsion/operating_point.hpp"
 
 namespace sortie::fit {
@@ -16,12 +17,6 @@ namespace {
 
 constexpr double kPi = std::numbers::pi;
 const double kNaN = std::numeric_limits<double>::quiet_NaN();
-
-std::string fixed(double v, int d) {
-  char b[64];
-  std::snprintf(b, sizeof b, "%.*f", d, v);
-  return b;
-}
 
 double median(std::vector<double> v) {
   if (v.empty()) return kNaN;
@@ -134,7 +129,7 @@ DriveFitResult fit_drive(const propulsion::BenchMap& bench, const DriveFitOption
     throw InputError(file + ": too few rows with the motor turning (got " + std::to_string(running) +
                      ", expected at least 4 throttle steps with rpm and thrust) to fit Kv, Rm, I0, the ESC losses, CT and CP");
   if (thr_max - thr_min < 0.2)
-    throw InputError(file + ": the throttle steps span " + fixed(100 * thr_min, 0) + " % to " + fixed(100 * thr_max, 0) +
+    throw InputError(file + ": the throttle steps span " + format_fixed(100 * thr_min, 0) + " % to " + format_fixed(100 * thr_max, 0) +
                      " % only (expected at least 20 % of throttle between the lowest and highest running step)");
 
   // --- first guesses ---
@@ -236,11 +231,11 @@ DriveFitResult fit_drive(const propulsion::BenchMap& bench, const DriveFitOption
       dp.se_rel = std::sqrt(std::max(0.0, cov(i, i)));
       dp.at_bound = best.x[i] <= lo[i] + 1e-9 || best.x[i] >= hi[i] - 1e-9;
       if (dp.at_bound)
-        out.warnings.push_back(dp.name + " reached a bound of the fit (" + fixed(std::exp(best.x[i]), 6) +
+        out.warnings.push_back(dp.name + " reached a bound of the fit (" + format_fixed(std::exp(best.x[i]), 6) +
                                "): this bench does not pin it down");
       else if (dp.se_rel > 0.5)
         out.warnings.push_back(dp.name + " is loosely determined by this bench (standard error " +
-                               fixed(100.0 * dp.se_rel, 0) + " %); more throttle steps, a second supply voltage or a "
+                               format_fixed(100.0 * dp.se_rel, 0) + " %); more throttle steps, a second supply voltage or a "
                                "torque column would help");
       out.parameters.push_back(dp);
     }
@@ -267,12 +262,12 @@ DriveFitResult fit_drive(const propulsion::BenchMap& bench, const DriveFitOption
   d.motor.i_max_A = opts.motor_i_max_A.value_or(i_lim);
   d.esc.i_max_A = opts.esc_i_max_A.value_or(i_lim);
   if (!opts.motor_i_max_A || !opts.esc_i_max_A)
-    out.notes.push_back("current limits set to the largest motor current on the bench, " + fixed(i_lim, 1) +
+    out.notes.push_back("current limits set to the largest motor current on the bench, " + format_fixed(i_lim, 1) +
                         " A (give --motor-i-max-A and --esc-i-max-A for the makers' ratings)");
   d.esc.duty_max = duty_max;
-  out.notes.push_back("duty = throttle × duty_max with duty_max " + fixed(duty_max, 3) +
+  out.notes.push_back("duty = throttle × duty_max with duty_max " + format_fixed(duty_max, 3) +
                       (opts.duty_max ? "" : " (give --duty-max for the ESC's)") +
-                      " (a linear throttle response); air density " + fixed(rho, 3) + " kg/m³" +
+                      " (a linear throttle response); air density " + format_fixed(rho, 3) + " kg/m³" +
                       (rho == 1.225 ? " (ISA sea level; give --air-density-kg-m3)" : ""));
 
   // --- every row through the propulsion model as `sortie drive` runs it ---
@@ -312,15 +307,15 @@ DriveFitResult fit_drive(const propulsion::BenchMap& bench, const DriveFitOption
   out.rms_power_pct = rms(e_power);
   out.rms_torque_pct = rms(e_torque);
   if (out.max_power_pct > 5.0)
-    out.warnings.push_back("bus power differs from the bench by up to " + fixed(out.max_power_pct, 1) +
+    out.warnings.push_back("bus power differs from the bench by up to " + format_fixed(out.max_power_pct, 1) +
                            " %: the first-order motor and ESC model does not describe this drive well everywhere");
   if (out.status != LmStatus::converged)
     out.warnings.push_back(std::string("the parameter fit ended with '") + to_string(out.status) +
                            "'; the best parameters found are written");
   out.note = "Fitted by sortie fit drive from " + std::filesystem::path(file).filename().string() + " (" +
              std::to_string(rows.size()) + " throttle steps, " + std::to_string(running) +
-             " turning): static CT and CP, duty = throttle × duty_max; RMS errors rpm " + fixed(out.rms_rpm_pct, 2) +
-             " %, thrust " + fixed(out.rms_thrust_pct, 2) + " %, bus power " + fixed(out.rms_power_pct, 2) +
+             " turning): static CT and CP, duty = throttle × duty_max; RMS errors rpm " + format_fixed(out.rms_rpm_pct, 2) +
+             " %, thrust " + format_fixed(out.rms_thrust_pct, 2) + " %, bus power " + format_fixed(out.rms_power_pct, 2) +
              " %. An estimate from measurements, not a rating.";
   return out;
 }

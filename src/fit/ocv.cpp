@@ -5,15 +5,11 @@
 #include <cmath>
 #include <optional>
 
+#include "core/text.hpp"
+
 namespace sortie::fit {
 
 namespace {
-
-std::string fixed(double v, int d) {
-  char b[64];
-  std::snprintf(b, sizeof b, "%.*f", d, v);
-  return b;
-}
 
 /// Linear interpolation through sorted (x, y), held flat outside.
 double lerp_points(const std::vector<double>& x, const std::vector<double>& y, double s) {
@@ -50,7 +46,7 @@ std::vector<double> strictly_rising(const std::vector<double>& y, std::vector<st
   double worst = 0.0;
   for (std::size_t g = 0; g < y.size(); ++g) worst = std::max(worst, std::fabs(mono[g] - y[g]));
   if (worst > 0.005)
-    warnings.push_back("the measured OCV falls with rising SoC somewhere (by up to " + fixed(1000 * worst, 1) +
+    warnings.push_back("the measured OCV falls with rising SoC somewhere (by up to " + format_fixed(1000 * worst, 1) +
                        " mV); the table was levelled there");
   for (std::size_t g = 1; g < mono.size(); ++g) mono[g] = std::max(mono[g], mono[g - 1] + 1e-4);
   return mono;
@@ -219,10 +215,10 @@ OcvTable build_ocv(std::vector<OcvPoint> rest, const std::vector<OcvPoint>& load
     for (std::size_t g = last + 1; g < grid.size(); ++g) val[g] = *val[last] + sl * (grid[g] - grid[last]);
   }
   if (out.covered_lo > 0.05)
-    out.warnings.push_back("the log reaches down to SoC " + fixed(out.covered_lo, 3) +
+    out.warnings.push_back("the log reaches down to SoC " + format_fixed(out.covered_lo, 3) +
                            " only: the OCV below is extrapolated");
   if (out.covered_hi < 0.95)
-    out.warnings.push_back("the log reaches up to SoC " + fixed(out.covered_hi, 3) +
+    out.warnings.push_back("the log reaches up to SoC " + format_fixed(out.covered_hi, 3) +
                            " only: the OCV above is extrapolated");
 
   std::vector<double> y(grid.size());

@@ -4,15 +4,11 @@
 #include <cmath>
 
 #include "core/error.hpp"
+#include "core/text.hpp"
 
 namespace sortie::fit {
 
 namespace {
-std::string fixed(double v, int d) {
-  char b[64];
-  std::snprintf(b, sizeof b, "%.*f", d, v);
-  return b;
-}
 }  // namespace
 
 double rest_current_A(const CellLog& log) {
@@ -85,8 +81,8 @@ SocEstimate estimate_soc(const CellLog& log, const SocOptions& opts) {
     throw InputError(log.file +
                      ": no known full or empty point: the log has no charge that ends at the maximum voltage "
                      "with a tapering current, and no discharge that ends at the cutoff voltage (got highest charge voltage " +
-                     (v_chg_max > -1e299 ? fixed(v_chg_max, 3) + " V" : std::string("none")) + ", lowest discharge voltage " +
-                     (v_dis_min < 1e299 ? fixed(v_dis_min, 3) + " V" : std::string("none")) +
+                     (v_chg_max > -1e299 ? format_fixed(v_chg_max, 3) + " V" : std::string("none")) + ", lowest discharge voltage " +
+                     (v_dis_min < 1e299 ? format_fixed(v_dis_min, 3) + " V" : std::string("none")) +
                      "; expected such a point, or give --soc0)");
 
   // Capacity from full-to-empty discharges, else empty-to-full charges.
@@ -117,8 +113,8 @@ SocEstimate estimate_soc(const CellLog& log, const SocOptions& opts) {
   if (out.capacity_from_log && opts.capacity_Ah) {
     const double rel = std::fabs(*opts.capacity_Ah - out.capacity_Ah) / out.capacity_Ah;
     if (rel > 0.03)
-      out.warnings.push_back("--capacity-Ah " + fixed(*opts.capacity_Ah, 3) + " differs from the log's " +
-                             fixed(out.capacity_Ah, 3) + " Ah by " + fixed(100 * rel, 1) +
+      out.warnings.push_back("--capacity-Ah " + format_fixed(*opts.capacity_Ah, 3) + " differs from the log's " +
+                             format_fixed(out.capacity_Ah, 3) + " Ah by " + format_fixed(100 * rel, 1) +
                              " %; the log's value is used");
   }
   if (!out.capacity_from_log) {
@@ -131,7 +127,7 @@ SocEstimate estimate_soc(const CellLog& log, const SocOptions& opts) {
     out.capacity_source = "given (--capacity-Ah)";
   }
   if (!(out.capacity_Ah > 0.0))
-    throw InputError(log.file + ": measured capacity is not positive (got " + fixed(out.capacity_Ah, 4) +
+    throw InputError(log.file + ": measured capacity is not positive (got " + format_fixed(out.capacity_Ah, 4) +
                      " Ah, expected a discharge between the full and the empty point)");
 
   // SoC of every row from the latest anchor (the first for rows before it).
@@ -145,7 +141,7 @@ SocEstimate estimate_soc(const CellLog& log, const SocOptions& opts) {
   double lo = 1e300, hi = -1e300;
   for (double s : out.soc) lo = std::min(lo, s), hi = std::max(hi, s);
   if (lo < -0.05 || hi > 1.05)
-    out.warnings.push_back("state of charge runs from " + fixed(lo, 3) + " to " + fixed(hi, 3) +
+    out.warnings.push_back("state of charge runs from " + format_fixed(lo, 3) + " to " + format_fixed(hi, 3) +
                            ": the capacity or the known points do not fit the log (expected 0 to 1)");
   out.anchors = std::move(anchors);
   return out;

@@ -6,6 +6,7 @@
 #include <limits>
 
 #include "core/error.hpp"
+#include "core/text.hpp"
 #include "io/json_reader.hpp"
 
 namespace sortie::io {
@@ -29,11 +30,6 @@ const std::map<std::string, std::vector<std::string>>& recognised() {
   return names;
 }
 
-std::string lower(std::string s) {
-  for (char& c : s) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-  return s;
-}
-
 std::string fmt(double v) { return format_number(v); }
 
 /// Where one quantity is in the file and how to convert it.
@@ -47,7 +43,7 @@ struct Column {
 /// Match a --columns name against one header cell: the exact text, or the same normalised
 /// name, case-insensitively.
 bool header_matches(const std::string& cell, const std::string& wanted) {
-  if (lower(cell) == lower(wanted)) return true;
+  if (to_lower(cell) == to_lower(wanted)) return true;
   const std::string n = normalise_name(wanted);
   return !n.empty() && (normalise_name(cell) == n || split_header(cell).base == n);
 }
@@ -125,7 +121,7 @@ double median(std::vector<double> v) {
 
 bool excluded_value(const DelimitedFile& f, std::size_t r, std::size_t line, const Column& c) {
   const auto& row = f.rows[r];
-  const std::string s = c.index < row.size() ? lower(row[c.index]) : std::string{};
+  const std::string s = c.index < row.size() ? to_lower(row[c.index]) : std::string{};
   if (s.empty() || s == "no" || s == "n" || s == "false" || s == "0" || s == "keep") return false;
   if (s == "yes" || s == "y" || s == "true" || s == "1" || s == "x" || s == "excluded" ||
       s == "exclude")

@@ -9,23 +9,12 @@
 
 #include "core/error.hpp"
 #include "core/suggest.hpp"
+#include "core/text.hpp"
 #include "io/csv.hpp"
 
 namespace sortie::io {
 
 namespace {
-
-std::string trim(const std::string& s) {
-  std::size_t a = 0, b = s.size();
-  while (a < b && std::isspace(static_cast<unsigned char>(s[a]))) ++a;
-  while (b > a && std::isspace(static_cast<unsigned char>(s[b - 1]))) --b;
-  return s.substr(a, b - a);
-}
-
-std::string lower(std::string s) {
-  for (char& c : s) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-  return s;
-}
 
 /// Split on a delimiter other than the comma; double quotes group as in CSV.
 std::vector<std::string> split_on(const std::string& line, char delim) {
@@ -86,7 +75,7 @@ const std::vector<std::string> kUnitWords = {
     "rpm", "n", "g", "gf", "kg", "kgf", "nm", "ncm", "mnm", "w", "rad/s"};
 
 bool is_unit_word(const std::string& u) {
-  const std::string l = lower(u);
+  const std::string l = to_lower(u);
   return std::find(kUnitWords.begin(), kUnitWords.end(), l) != kUnitWords.end();
 }
 
@@ -184,7 +173,7 @@ std::map<std::string, ColumnRef> parse_column_spec(const std::string& spec,
     const auto eq = item.find('=');
     if (eq == std::string::npos || eq == 0 || eq + 1 == item.size())
       throw UsageError("--columns: '" + item + "' is not QUANTITY=COLUMN (expected e.g. current=I_mA or voltage=3)");
-    const std::string q = lower(trim(item.substr(0, eq)));
+    const std::string q = to_lower(trim(item.substr(0, eq)));
     if (std::find(known.begin(), known.end(), q) == known.end()) {
       const std::string near = nearest(q, known);
       throw UsageError("--columns: unknown quantity '" + q + "'" +
@@ -213,7 +202,7 @@ std::map<std::string, ColumnRef> parse_column_spec(const std::string& spec,
 }
 
 std::optional<UnitFactor> unit_factor(Quantity q, const std::string& unit_raw) {
-  const std::string u = lower(trim(unit_raw));
+  const std::string u = to_lower(trim(unit_raw));
   switch (q) {
     case Quantity::time:
       if (u == "s" || u == "sec" || u == "seconds") return UnitFactor{1.0, 0.0, "s"};
