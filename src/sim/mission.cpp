@@ -259,6 +259,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
     }
     const battery::State x_phase0 = x;
     double phase_duty_integral = 0.0;
+    double phase_motor_in_J = 0.0;  // Σ N·V_m·I_m·dt, for the phase's ESC efficiency
     std::vector<std::string> phase_warnings;
     bool warned_over_current = false;
     const double cell_i_limit = m.pack.cell.i_cont_max_A * m.pack.parallel;
@@ -311,6 +312,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
       const double dt = seg.end.t - t;
       shaft_J += m.drive.rotors * setup->shaft_W * dt;
       motor_in_J += m.drive.rotors * setup->motor_in_W * dt;
+      phase_motor_in_J += m.drive.rotors * setup->motor_in_W * dt;
       drive_J += (seg.end.x[battery::kEnergy] - x[battery::kEnergy]) - m.avionics_W * dt;
       for (const auto& smp : seg.samples) {
         const double frac = st.duration_s > 0 ? (smp.t - (so.t_end - st.duration_s)) / st.duration_s : 0.0;
@@ -380,6 +382,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
     ps.duty_mean = ps.duration_s > 0 ? phase_duty_integral / ps.duration_s : ps.duty_max;
     const double phase_drive_J = ps.energy_Wh * 3600.0 - m.avionics_W * ps.duration_s;
     ps.eta_mean = phase_drive_J > 0 ? m.drive.rotors * ps.shaft_W * ps.duration_s / phase_drive_J : 0.0;
+    ps.eta_esc_mean = phase_drive_J > 0 ? phase_motor_in_J / phase_drive_J : 0.0;
     ps.distance_m = p.kind == Phase::Kind::cruise ? ps.ground_speed_mps * ps.duration_s : 0.0;
     if (!std::isfinite(ps.v_min_cell_V)) ps.v_min_cell_V = 0.0;
     if (ps.duration_s > 0 || ps.flown) {

@@ -194,6 +194,17 @@ TEST_CASE("energy: the pack's energy out is the sum over the phases, and SoC nev
   CHECK(sum_Wh == doctest::Approx(r.energy_Wh).epsilon(1e-12));
   CHECK(sum_Ah == doctest::Approx(r.charge_Ah).epsilon(1e-12));
   CHECK(sum_t == doctest::Approx(r.flight_time_s).epsilon(1e-12));
+  // Each phase's ESC efficiency (motor input over drive input) lies in (0, 1) and their
+  // energy-weighted mean is the flight's (regression: the per-phase figure was never set).
+  double drive_J = 0, motor_in_J = 0;
+  for (const auto& p : r.phases) {
+    CHECK(p.eta_esc_mean > 0.5);
+    CHECK(p.eta_esc_mean < 1.0);
+    const double pj = p.energy_Wh * 3600 - m.avionics_W * p.duration_s;
+    drive_J += pj;
+    motor_in_J += p.eta_esc_mean * pj;
+  }
+  CHECK(motor_in_J / drive_J == doctest::Approx(r.eta_esc_mean).epsilon(1e-9));
   // Charge used is the SoC drop times the capacity (Coulomb counting).
   CHECK(r.charge_Ah == doctest::Approx((1.0 - r.landing.soc) * m.pack.capacity_Ah()).epsilon(1e-9));
   REQUIRE(r.trace.size() > 10);
