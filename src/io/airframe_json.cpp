@@ -82,6 +82,11 @@ flight::Airframe load_airframe_file(const std::filesystem::path& path) {
   return read_airframe(r);
 }
 
+flight::Airframe parse_airframe_json(const std::string& text, const Source& src) {
+  ObjectReader r = open_model_text(text, src);
+  return read_airframe(r);
+}
+
 flight::Environment read_environment(ObjectReader& r) {
   flight::Environment env;
   // The field may sit below sea level (−430 m is the lowest on land) and the troposphere model

@@ -2,6 +2,7 @@
 /// Airframe models and a profile's environment from JSON (DESIGN.md "File shapes"), validated
 /// once at load.
 #include <filesystem>
+#include <string>
 
 #include "flight/airframe.hpp"
 #include "flight/environment.hpp"
@@ -13,6 +14,8 @@ namespace sortie::io {
 /// "note"). A key of the other kind is refused naming the kind it belongs to.
 flight::Airframe read_airframe(ObjectReader& r);
 flight::Airframe load_airframe_file(const std::filesystem::path& path);
+/// An airframe from JSON text (tests, fuzzing); `src.file` names it in messages.
+flight::Airframe parse_airframe_json(const std::string& text, const Source& src);
 
 /// A profile's "environment" object: field_elevation_m (required), temperature_C (outside air
 /// at the field) or isa_offset_C (not both; neither: standard day), wind {speed_mps, from_deg}

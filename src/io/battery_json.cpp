@@ -100,4 +100,14 @@ battery::Pack load_pack_file(const std::filesystem::path& path) {
   return read_pack(r);
 }
 
+battery::Cell parse_cell_json(const std::string& text, const Source& src) {
+  ObjectReader r = open_model_text(text, src);
+  return read_cell(r);
+}
+
+battery::Pack parse_pack_json(const std::string& text, const Source& src) {
+  ObjectReader r = open_model_text(text, src);
+  return read_pack(r);
+}
+
 }  // namespace sortie::io

@@ -110,4 +110,9 @@ propulsion::Drive load_drive_file(const std::filesystem::path& path) {
   return read_drive(r);
 }
 
+propulsion::Drive parse_drive_json(const std::string& text, const Source& src) {
+  ObjectReader r = open_model_text(text, src);
+  return read_drive(r);
+}
+
 }  // namespace sortie::io

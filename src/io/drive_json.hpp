@@ -2,6 +2,7 @@
 /// Drive models from JSON (DESIGN.md "File shapes — Drive"), validated once at load.
 /// `prop`, `motor` and `esc` may each be inline or a path relative to the drive's file.
 #include <filesystem>
+#include <string>
 
 #include "io/json_reader.hpp"
 #include "propulsion/drive.hpp"
@@ -15,5 +16,8 @@ propulsion::Motor read_motor(ObjectReader& r);
 propulsion::Esc read_esc(ObjectReader& r);
 
 propulsion::Drive load_drive_file(const std::filesystem::path& path);
+/// A drive from JSON text (tests, fuzzing): `src.file` names it in messages, `src.dir` (and
+/// `src.root`) resolve its prop, motor and esc paths.
+propulsion::Drive parse_drive_json(const std::string& text, const Source& src);
 
 }  // namespace sortie::io

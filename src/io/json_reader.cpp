@@ -76,30 +76,62 @@ void line_column(const std::string& text, std::size_t byte, std::size_t& line, s
   }
 }
 
+/// The first place where arrays and objects nest deeper than kMaxJsonDepth (outside strings),
+/// as a byte offset; nullopt when they never do. Checked before parsing: the parser copes with
+/// any depth, but writing a value back out (messages quote values) recurses once per level.
+std::optional<std::size_t> too_deep(const std::string& text) {
+  std::size_t depth = 0;
+  bool in_string = false;
+  for (std::size_t i = 0; i < text.size(); ++i) {
+    const char c = text[i];
+    if (in_string) {
+      if (c == '\\') ++i;
+      else if (c == '"') in_string = false;
+    } else if (c == '"') {
+      in_string = true;
+    } else if (c == '[' || c == '{') {
+      if (++depth > kMaxJsonDepth) return i;
+    } else if ((c == ']' || c == '}') && depth > 0) {
+      --depth;
+    }
+  }
+  return std::nullopt;
+}
+
 }  // namespace
 
-nlohmann::json load_json_file(const std::filesystem::path& path) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) throw InputError(path.string() + ": cannot open the file");
-  std::ostringstream ss;
-  ss << in.rdbuf();
-  const std::string text = ss.str();
+nlohmann::json parse_json_text(const std::string& text, const std::string& name) {
+  if (const auto at = too_deep(text)) {
+    std::size_t line = 0, col = 0;
+    line_column(text, *at + 1, line, col);
+    throw InputError(name + ": line " + std::to_string(line) + ", column " + std::to_string(col) +
+                     ": JSON nested too deeply (got more than " + std::to_string(kMaxJsonDepth) +
+                     " levels of [ and {, expected at most " + std::to_string(kMaxJsonDepth) + ")");
+  }
   try {
     return nlohmann::json::parse(text);
   } catch (const nlohmann::json::out_of_range& e) {
     // A literal too large for a double (1e999): nlohmann gives no position for it.
     std::string why = e.what();
     if (auto p = why.find("] "); p != std::string::npos) why = why.substr(p + 2);
-    throw InputError(path.string() + ": " + why + " (expected a finite number)");
+    throw InputError(name + ": " + why + " (expected a finite number)");
   } catch (const nlohmann::json::parse_error& e) {
     std::size_t line = 0, col = 0;
     line_column(text, e.byte, line, col);
     std::string why = e.what();
     // nlohmann's text is "[json.exception.parse_error.101] parse error at line L, column C: why"
     if (auto p = why.find(": "); p != std::string::npos) why = why.substr(p + 2);
-    throw InputError(path.string() + ": line " + std::to_string(line) + ", column " +
+    throw InputError(name + ": line " + std::to_string(line) + ", column " +
                      std::to_string(col) + ": JSON syntax error: " + why);
   }
+}
+
+nlohmann::json load_json_file(const std::filesystem::path& path) {
+  std::ifstream in(path, std::ios::binary);
+  if (!in) throw InputError(path.string() + ": cannot open the file");
+  std::ostringstream ss;
+  ss << in.rdbuf();
+  return parse_json_text(ss.str(), path.string());
 }
 
 std::string escape_pointer_token(const std::string& key) {
@@ -286,15 +318,42 @@ Table ObjectReader::number_or_table(const std::string& key, const std::string& x
        "a number or {\"" + x_key + "\": [...], \"" + y_key + "\": [...]}");
 }
 
+namespace {
+
+/// Whether `p` lies inside the folder `root` (both made canonical, so ".." and symbolic links
+/// cannot lead out of it).
+bool inside_folder(const std::filesystem::path& p, const std::filesystem::path& root) {
+  std::error_code ec;
+  const auto file = std::filesystem::weakly_canonical(p, ec);
+  if (ec) return false;
+  const auto folder = std::filesystem::weakly_canonical(root, ec);
+  if (ec) return false;
+  auto f = file.begin();
+  for (auto r = folder.begin(); r != folder.end(); ++r, ++f) {
+    if (r->empty()) continue;  // a trailing separator
+    if (f == file.end() || *f != *r) return false;
+  }
+  return true;
+}
+
+}  // namespace
+
 ObjectReader ObjectReader::model(const std::string& key) {
   const auto& v = require(key);
   if (v.is_string()) {
-    std::filesystem::path p = v.get<std::string>();
+    const std::string given = v.get<std::string>();
+    std::filesystem::path p = given;
     if (p.is_relative()) p = src_.dir / p;
-    if (!std::filesystem::is_regular_file(p))
-      fail(key, "model file not found", "\"" + v.get<std::string>() + "\"",
+    if (!src_.root.empty() && !inside_folder(p, src_.root))
+      fail(key, "model file outside the folder models are read from", "\"" + given + "\"",
+           "a path inside " + src_.root.string());
+    // The error_code form: a name too long for the system or a loop of links is a file that is
+    // not there, not an exception of the file system library.
+    std::error_code ec;
+    if (!std::filesystem::is_regular_file(p, ec))
+      fail(key, "model file not found", "\"" + given + "\"",
            "a path relative to " + (src_.dir.empty() ? std::string(".") : src_.dir.string()));
-    return open_model_file(p);
+    return open_model_file(p, src_.root);
   }
   if (v.is_object()) return child(v, pointer(key));
   fail(key, "neither a model object nor a file path", describe_value(v),
@@ -314,9 +373,16 @@ void ObjectReader::finish() {
   }
 }
 
-ObjectReader open_model_file(const std::filesystem::path& path) {
+ObjectReader open_model_file(const std::filesystem::path& path, const std::filesystem::path& root) {
   auto owned = std::make_shared<const nlohmann::json>(load_json_file(path));
-  ObjectReader r(*owned, Source{path.string(), path.parent_path()}, "");
+  ObjectReader r(*owned, Source{path.string(), path.parent_path(), root}, "");
+  r.owned_ = owned;
+  return r;
+}
+
+ObjectReader open_model_text(const std::string& text, Source src) {
+  auto owned = std::make_shared<const nlohmann::json>(parse_json_text(text, src.file));
+  ObjectReader r(*owned, std::move(src), "");
   r.owned_ = owned;
   return r;
 }

@@ -1,11 +1,13 @@
 #pragma once
 /// Reading model files: JSON objects with their keys checked once, at load (STYLE.md rule 6).
 /// Every error names the file, the JSON pointer, the value and what was expected.
+#include <cstddef>
 #include <filesystem>
 #include <memory>
 #include <nlohmann/json.hpp>
 #include <optional>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "core/table.hpp"
@@ -33,12 +35,28 @@ Range any_number(std::string unit);
 
 /// Where a JSON value came from: the file and the folder relative paths are resolved from.
 struct Source {
+  Source() = default;
+  // A constructor rather than an aggregate, so that `Source{file, dir}` leaves `root` empty
+  // without a missing-initializer warning.
+  Source(std::string file_, std::filesystem::path dir_ = {}, std::filesystem::path root_ = {})
+      : file(std::move(file_)), dir(std::move(dir_)), root(std::move(root_)) {}
+
   std::string file;                ///< as shown in messages
   std::filesystem::path dir;       ///< folder of the file, for relative model paths
+  /// When not empty, a model path must lead to a file inside this folder (text read from an
+  /// untrusted place, such as a fuzzer's input, then reaches no other file). Handed on to the
+  /// models it refers to.
+  std::filesystem::path root;
 };
+
+/// Deepest nesting of arrays and objects accepted in a JSON text (a model file nests about 5).
+inline constexpr std::size_t kMaxJsonDepth = 64;
 
 /// Parse a JSON file; a syntax error names the line and column.
 nlohmann::json load_json_file(const std::filesystem::path& path);
+/// Parse JSON text; `name` is shown in messages. A syntax error names the line and column;
+/// nesting deeper than kMaxJsonDepth is refused there too.
+nlohmann::json parse_json_text(const std::string& text, const std::string& name);
 
 /// `FILE: /pointer: what (got X, expected Y)`; parts left empty are left out.
 std::string message(const Source& src, const std::string& pointer, const std::string& what,
@@ -94,7 +112,9 @@ class ObjectReader {
   const nlohmann::json& json() const { return *j_; }
 
  private:
-  friend ObjectReader open_model_file(const std::filesystem::path& path);
+  friend ObjectReader open_model_file(const std::filesystem::path& path,
+                                      const std::filesystem::path& root);
+  friend ObjectReader open_model_text(const std::string& text, Source src);
   ObjectReader child(const nlohmann::json& j, std::string pointer) const;
   const nlohmann::json& require(const std::string& key);
   double checked_number(const nlohmann::json& v, const std::string& ptr, const Range& r) const;
@@ -106,8 +126,12 @@ class ObjectReader {
   std::vector<std::string> known_;
 };
 
-/// Open a model file as a reader on its root object.
-ObjectReader open_model_file(const std::filesystem::path& path);
+/// Open a model file as a reader on its root object; `root` as in Source::root.
+ObjectReader open_model_file(const std::filesystem::path& path,
+                             const std::filesystem::path& root = {});
+/// A reader on the root object of a JSON text (tests, fuzzing): `src.file` names it in
+/// messages, `src.dir` resolves its relative model paths.
+ObjectReader open_model_text(const std::string& text, Source src);
 
 /// JSON-pointer escaping of one key (RFC 6901: ~ → ~0, / → ~1).
 std::string escape_pointer_token(const std::string& key);

@@ -11,13 +11,15 @@ namespace sortie::io {
 
 using flight::Phase;
 
-LoadedProfile load_profile_file(const std::filesystem::path& path,
-                                const std::filesystem::path& pack_override) {
-  ObjectReader r = open_model_file(path);
+namespace {
+
+/// The profile object at the root of `r`; `default_name` names the mission when "name" is absent.
+LoadedProfile read_profile(ObjectReader& r, const std::string& default_name,
+                           const std::filesystem::path& pack_override) {
   LoadedProfile out;
   out.source = r.source();
   sim::Mission& m = out.mission;
-  m.name = r.string_or("name", path.stem().string());
+  m.name = r.string_or("name", default_name);
   {
     ObjectReader a = r.model("airframe");
     m.airframe = read_airframe(a);
@@ -77,6 +79,20 @@ LoadedProfile load_profile_file(const std::filesystem::path& path,
     }
   }
   return out;
+}
+
+}  // namespace
+
+LoadedProfile load_profile_file(const std::filesystem::path& path,
+                                const std::filesystem::path& pack_override) {
+  ObjectReader r = open_model_file(path);
+  return read_profile(r, path.stem().string(), pack_override);
+}
+
+LoadedProfile parse_profile_json(const std::string& text, const Source& src,
+                                 const std::filesystem::path& pack_override) {
+  ObjectReader r = open_model_text(text, src);
+  return read_profile(r, std::filesystem::path(src.file).stem().string(), pack_override);
 }
 
 std::string refusal_message(const LoadedProfile& p, const sim::MissionResult& r) {

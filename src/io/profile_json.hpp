@@ -20,6 +20,11 @@ struct LoadedProfile {
 LoadedProfile load_profile_file(const std::filesystem::path& path,
                                 const std::filesystem::path& pack_override = {});
 
+/// A profile from JSON text (tests, fuzzing): `src.file` names it in messages, `src.dir` (and
+/// `src.root`) resolve its model paths.
+LoadedProfile parse_profile_json(const std::string& text, const Source& src,
+                                 const std::filesystem::path& pack_override = {});
+
 /// The one-line error for a phase the airframe or drive cannot fly (a simulation refusal).
 std::string refusal_message(const LoadedProfile& p, const sim::MissionResult& r);
 
