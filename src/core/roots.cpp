@@ -20,12 +20,22 @@ std::optional<double> find_root(const std::function<double(double)>& f, double a
     std::swap(a, b);
     std::swap(fa, fb);
   }
+  if (!std::isfinite(a) || !std::isfinite(b)) return std::nullopt;
   if (fa == 0.0) return a;
   if (fb == 0.0) return b;
   if (!std::isfinite(fa) || !std::isfinite(fb) || (fa > 0) == (fb > 0)) return std::nullopt;
+  // A sign change across a bracket of no width (a step too short to move the time at that
+  // magnitude): the root is that point. TOMS 748 refuses a == b with a std::domain_error.
+  if (a == b) return a;
   std::uintmax_t iters = max_iter;
   auto tol = [x_tol](double lo, double hi) { return std::fabs(hi - lo) <= x_tol; };
-  auto [lo, hi] = boost::math::tools::toms748_solve(f, a, b, fa, fb, tol, iters);
+  std::pair<double, double> bracket;
+  try {
+    bracket = boost::math::tools::toms748_solve(f, a, b, fa, fb, tol, iters);
+  } catch (const boost::math::evaluation_error& e) {  // f turned non-finite inside the bracket
+    throw LimitError("root finder failed on [" + format_number(a) + ", " + format_number(b) + "]: " + e.what());
+  }
+  const auto [lo, hi] = bracket;
   if (iters >= max_iter && !tol(lo, hi))
     throw LimitError("root finder did not converge in " + std::to_string(max_iter) +
                      " iterations on [" + format_number(a) + ", " + format_number(b) + "]");
