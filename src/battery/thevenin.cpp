@@ -39,18 +39,26 @@ Terminal solve_terminal(double emf_V, double r0_ohm, double ocv_V, const Demand&
   } else {
     const double B = emf_V + d.b * r0_ohm;  // coefficient of I (with sign flipped)
     const double C = ramp + d.b * emf_V;    // constant term
-    if (r0_ohm <= 0.0) {
-      out.current_A = C / B;  // R0 = 0: V = E, I = (a + b·E)/E
-    } else {
-      const double disc = B * B - 4.0 * r0_ohm * C;
+    const double disc = B * B - 4.0 * r0_ohm * C;
+    if (C > 0.0 && (B <= 0.0 || disc < 0.0)) {
+      // No current delivers P: D < 0, or no EMF left at all (B ≤ 0; an integrator's trial
+      // stage can put the RC voltages above the OCV, and there the other root 2C/(B + √D) is a
+      // huge negative current that blows the state up). D is reported negative in both cases,
+      // and continuous through B = 0, for the event locator; the current is the vertex
+      // B/(2·R0) while there is an EMF, else none.
+      out.collapsed = true;
+      out.discriminant = B > 0.0 ? disc : -std::fabs(disc);
+      out.current_A = B > 0.0 ? B / (2.0 * r0_ohm) : 0.0;
+    } else if (C == 0.0) {
       out.discriminant = disc;
-      if (disc >= 0.0) {
-        // Smaller root in a cancellation-free form: I = 2C / (B + √D)
-        out.current_A = 2.0 * C / (B + std::sqrt(disc));
-      } else {
-        out.collapsed = true;
-        out.current_A = B / (2.0 * r0_ohm);
-      }
+      out.current_A = 0.0;  // no power asked for (2C/(B + √D) would be 0/0 with B ≤ 0)
+    } else if (r0_ohm <= 0.0) {
+      out.current_A = C / B;  // R0 = 0: V = E, I = (a + b·E)/E; here B > 0 or C < 0
+    } else {
+      out.discriminant = disc;
+      // Smaller root in a cancellation-free form: I = 2C / (B + √D); B + √D > 0 here (C < 0
+      // makes √D exceed |B|).
+      out.current_A = 2.0 * C / (B + std::sqrt(disc));
     }
   }
   out.v_terminal_V = emf_V - r0_ohm * out.current_A;
