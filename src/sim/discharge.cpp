@@ -75,8 +75,9 @@ DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec) 
   SegmentOptions opts;
   opts.sample_s = spec.sample_s;
   opts.next_sample_t = t;
-  opts.max_steps = spec.max_steps;
-  std::size_t steps_left = spec.max_steps;
+  opts.max_steps = spec.max_steps;  // for the whole discharge, over every segment
+  opts.max_samples = spec.max_samples;
+  opts.context = "discharge";
   auto track = [&](const Sample& s) {
     out.v_min_V = std::min(out.v_min_V, s.term.v_terminal_V);
     out.i_max_A = std::max(out.i_max_A, s.term.current_A);
@@ -91,9 +92,9 @@ DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec) 
   std::optional<std::size_t> stopped;
   for (const auto& [demand, t_end] : segments) {
     opts.t_end = t_end;
-    opts.max_steps = steps_left;
     SegmentResult seg = run_segment(model, demand, t, x, events, opts, hook);
-    steps_left -= std::min(steps_left, seg.steps);
+    opts.steps_done += seg.steps;
+    opts.samples_done += seg.samples.size();
     opts.next_sample_t = seg.next_sample_t;
     out.trace.insert(out.trace.end(), seg.samples.begin(), seg.samples.end());
     for (const auto& w : seg.warnings) {

@@ -25,7 +25,8 @@ struct DischargeSpec {
   double cutoff_cell_V = 0;  ///< loaded cell voltage that ends the discharge, V
   double soc_floor = 0.0;    ///< SoC that ends the discharge
   double sample_s = 1.0;     ///< trace spacing, s (0: no trace)
-  std::size_t max_steps = 200000;
+  std::size_t max_steps = 200000;      ///< integration steps in all (LimitError beyond)
+  std::size_t max_samples = 1000000;   ///< trace samples in all (LimitError beyond)
 };
 
 enum class EndReason { cutoff_voltage, soc_floor, power_collapse, load_end };

@@ -263,6 +263,9 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
     std::vector<std::string> phase_warnings;
     bool warned_over_current = false;
     const double cell_i_limit = m.pack.cell.i_cont_max_A * m.pack.parallel;
+    std::size_t phase_steps = 0;  // over every stretch of the phase, against max_steps_per_phase
+    const std::string phase_context = "phase " + std::to_string(i + 1) + " " + flight::to_string(p.kind) +
+                                      (p.label.empty() ? "" : " (" + p.label + ")");
 
     for (const Stretch& st : stretches(*planned, heights[i], heights[i + 1], opts.max_height_step_m)) {
       std::string why, field;
@@ -288,6 +291,10 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
       so.sample_s = opts.sample_s;
       so.next_sample_t = next_sample;
       so.max_steps = opts.max_steps_per_phase;
+      so.steps_done = phase_steps;
+      so.max_samples = opts.max_trace_samples;
+      so.samples_done = out.trace.size();
+      so.context = phase_context;
       so.abs_tol = 1e-9;
       so.rel_tol = 1e-9;
       const double vm = setup->v_motor_V;
@@ -307,6 +314,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
                                  (vm / a.term.v_terminal_V + 4 * vm / mid.term.v_terminal_V + vm / b.term.v_terminal_V);
       };
       SegmentResult seg = run_segment(pm, setup->demand, t, x, events, so, hook);
+      phase_steps += seg.steps;
       next_sample = seg.next_sample_t;
       track(seg.end);
       const double dt = seg.end.t - t;
@@ -456,6 +464,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
       so.abs_tol = 1e-9;
       so.rel_tol = 1e-9;
       so.max_steps = opts.max_steps_per_phase;
+      so.context = "reserve time at landing";
       const auto seg = run_segment(pm, setup->demand, t, x, ev, so);
       out.reserve_time_s = seg.end.t - t;
     }
@@ -529,7 +538,7 @@ std::pair<double, std::string> smallest_margin(const Mission& m, const MissionRe
 
 }  // namespace
 
-SpareResult solve_spare(const Mission& m, const MissionResult& base) {
+SpareResult solve_spare(const Mission& m, const MissionResult& base, const SpareOptions& opts) {
   SpareResult out;
   out.phase = spare_phase(m);
   if (!out.phase) {
@@ -543,10 +552,17 @@ SpareResult solve_spare(const Mission& m, const MissionResult& base) {
   }
   const std::size_t i = *out.phase;
   const double base_len = planned_duration_s(m, i).value_or(0.0);
-  auto f = [&](double delta) {
+  SimOptions so = opts.sim;
+  so.sample_s = 0.0;
+  auto run = [&](double delta) {
+    if (out.simulations >= opts.max_simulations)
+      throw LimitError("spare-time solve stopped after " + std::to_string(opts.max_simulations) +
+                       " whole-mission simulations without locating the spare time of phase " +
+                       std::to_string(i + 1) + " (last tried " + format_number(delta) + " s)");
     ++out.simulations;
-    return smallest_margin(m, simulate(lengthened(m, i, delta))).first;
+    return simulate(lengthened(m, i, delta), so);
   };
+  auto f = [&](double delta) { return smallest_margin(m, run(delta)).first; };
   const double f0 = smallest_margin(m, base).first;
   double lo, hi, flo, fhi;
   if (f0 >= 0.0) {
@@ -573,7 +589,7 @@ SpareResult solve_spare(const Mission& m, const MissionResult& base) {
     if (flo < 0.0) {
       out.spare_s = -base_len;
       out.bounded = false;
-      out.binding_rule = smallest_margin(m, simulate(lengthened(m, i, lo))).second;
+      out.binding_rule = smallest_margin(m, run(lo)).second;
       out.note = "the mission fails even without this phase";
       return out;
     }
@@ -581,7 +597,7 @@ SpareResult solve_spare(const Mission& m, const MissionResult& base) {
   const double root = find_root(f, lo, hi, flo, fhi, 0.05, 100).value_or(lo);
   // Report the side of the bracket where every rule still holds.
   out.spare_s = root;
-  out.binding_rule = smallest_margin(m, simulate(lengthened(m, i, root + 0.05))).second;
+  out.binding_rule = smallest_margin(m, run(root + 0.05)).second;
   return out;
 }
 

@@ -33,7 +33,10 @@ struct SimOptions {
   double sample_s = 0.0;  ///< trace spacing, s (0: no trace)
   /// Largest height change integrated with one air density in a climb or descent, m.
   double max_height_step_m = 100.0;
+  /// Integration steps of one phase over all its stretches, and of the reserve-time run at
+  /// landing (LimitError naming the phase beyond).
   std::size_t max_steps_per_phase = 100000;
+  std::size_t max_trace_samples = 1000000;  ///< trace points of the whole flight (LimitError beyond)
 };
 
 struct PhaseSummary {
@@ -137,9 +140,16 @@ struct SpareResult {
   int simulations = 0;
 };
 
+struct SpareOptions {
+  /// Whole-mission simulations at most (LimitError beyond): the bracket search takes at most
+  /// about 15, TOMS 748 rarely more than 15 more.
+  int max_simulations = 150;
+  SimOptions sim;  ///< for each of them (its trace spacing is ignored: no trace is kept)
+};
+
 /// How much longer the spare phase could last with every rule still met: the root of the
 /// smallest relative rule margin over whole-mission simulations (TOMS 748, to 0.05 s).
-SpareResult solve_spare(const Mission& m, const MissionResult& base);
+SpareResult solve_spare(const Mission& m, const MissionResult& base, const SpareOptions& opts = {});
 
 /// The mission with phase `i` lengthened (or shortened) by `delta_s` seconds of flight.
 Mission lengthened(const Mission& m, std::size_t i, double delta_s);

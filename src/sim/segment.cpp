@@ -18,6 +18,14 @@ Sample make_sample(const battery::Thevenin& rhs, double t, const State& x) {
   return Sample{t, x, rhs.terminal(x, t)};
 }
 
+std::string lead(const SegmentOptions& opts) { return opts.context.empty() ? "integration" : opts.context; }
+
+bool finite(const Sample& s) {
+  for (double v : s.x)
+    if (!std::isfinite(v)) return false;
+  return std::isfinite(s.term.current_A) && std::isfinite(s.term.v_terminal_V) && std::isfinite(s.term.discriminant);
+}
+
 }  // namespace
 
 SegmentResult run_segment(const battery::PackModel& pack, const battery::Demand& demand, double t0,
@@ -38,6 +46,10 @@ SegmentResult run_segment(const battery::PackModel& pack, const battery::Demand&
                                 bool inclusive) {
     if (opts.sample_s <= 0) return;
     while (inclusive ? next_sample <= t_hi : next_sample < t_hi) {
+      if (opts.samples_done + res.samples.size() >= opts.max_samples)
+        throw LimitError(lead(opts) + ": the trace would hold more than " + std::to_string(opts.max_samples) +
+                         " samples at a spacing of " + format_number(opts.sample_s) + " s (at t = " +
+                         format_number(next_sample) + " s); use a larger sample spacing");
       res.samples.push_back(at(next_sample));
       next_sample += opts.sample_s;
     }
@@ -73,12 +85,16 @@ SegmentResult run_segment(const battery::PackModel& pack, const battery::Demand&
 
   State tmp{};
   while (true) {
-    if (res.steps >= opts.max_steps)
-      throw LimitError("integration stopped after " + std::to_string(opts.max_steps) +
+    if (opts.steps_done + res.steps >= opts.max_steps)
+      throw LimitError(lead(opts) + ": integration stopped after " + std::to_string(opts.max_steps) +
                        " steps at t = " + format_number(stepper.current_time()) +
-                       " s without reaching the end of the segment");
+                       " s without reaching the end");
     auto [ta, tb] = stepper.do_step(rhs);
     ++res.steps;
+    if (!(tb > ta))
+      throw LimitError(lead(opts) + ": the integration cannot advance from t = " + format_number(ta) +
+                       " s (a step of " + format_number(stepper.current_time_step()) +
+                       " s is below the resolution of a time that large)");
     auto at = [&](double t) {
       stepper.calc_state(t, tmp);
       return make_sample(rhs, t, tmp);
@@ -86,6 +102,17 @@ SegmentResult run_segment(const battery::PackModel& pack, const battery::Demand&
     const bool reaches_end = tb >= opts.t_end;
     const double t_hi = reaches_end ? opts.t_end : tb;
     const Sample hi = reaches_end ? at(t_hi) : make_sample(rhs, tb, stepper.current_state());
+    if (!finite(hi)) {
+      // Odeint's error estimate lets a step whose trial stages overflowed through (a NaN error
+      // is never "too large"). Take the step again from its start, ten times shorter, until it
+      // stays finite; a step too short to advance the time means the model cannot be followed.
+      const double dt = (tb - ta) / 10.0;
+      if (!(ta + dt > ta))
+        throw LimitError(lead(opts) + ": the state of the pack stopped being a finite number at t = " +
+                         format_number(ta) + " s (a model value far outside what the integrator can follow)");
+      stepper.initialize(cur.x, cur.t, dt);
+      continue;
+    }
 
     // Locate every crossing inside (ta, t_hi]; the earliest terminal one ends the segment.
     std::optional<Crossing> first_terminal;

@@ -41,7 +41,17 @@ struct SegmentOptions {
   double rel_tol = 1e-10;
   double time_tol_s = 1e-4;   ///< event time tolerance (well under the 10 ms asked for)
   double max_dt_s = 0.0;      ///< largest step, s (0: no limit)
+  /// Cap on the steps of a whole run (a discharge, a mission phase): steps_done + this
+  /// segment's steps.
   std::size_t max_steps = 200000;
+  std::size_t steps_done = 0;  ///< steps already taken by the run this segment continues
+  /// Cap on the trace samples of a whole run, likewise (a long run at a fine spacing would fill
+  /// the memory).
+  std::size_t max_samples = 1000000;
+  std::size_t samples_done = 0;
+  /// What is being integrated, leading the step-cap and sample-cap messages
+  /// ("phase 3 (hover)"); empty: "integration".
+  std::string context;
 };
 
 /// Called once per accepted step with the step's ends and a way to evaluate the dense output
@@ -58,7 +68,8 @@ struct SegmentResult {
 };
 
 /// Integrate from (t0, x0) under `demand` until a terminal event or opts.t_end.
-/// Throws LimitError after opts.max_steps steps.
+/// Throws LimitError when the run's steps would exceed opts.max_steps, or its trace samples
+/// opts.max_samples.
 SegmentResult run_segment(const battery::PackModel& pack, const battery::Demand& demand, double t0,
                           const battery::State& x0, const std::vector<EventSpec>& events,
                           const SegmentOptions& opts, const StepHook& hook = {});
