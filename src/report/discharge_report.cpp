@@ -11,6 +11,12 @@ std::string duration_hms(double s) {
   const bool neg = s < 0;
   s = std::fabs(s);
   char buf[64];
+  // Beyond a million hours the minutes mean nothing, and beyond about 3e22 s the hours no longer
+  // fit a long (converting them was undefined behaviour).
+  if (s >= 3.6e9) {
+    std::snprintf(buf, sizeof buf, "%.4g h", s / 3600);
+    return (neg ? "-" : "") + std::string(buf);
+  }
   const long h = static_cast<long>(s / 3600);
   const long m = static_cast<long>((s - h * 3600) / 60);
   const double sec = s - h * 3600 - m * 60;
