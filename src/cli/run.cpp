@@ -5,6 +5,7 @@
 
 #include "cli/commands.hpp"
 #include "core/error.hpp"
+#include "io/output.hpp"
 
 namespace sortie::cli {
 
@@ -18,8 +19,10 @@ int run(int argc, char** argv) {
   add_drive_command(app, exit_code);
   add_fly_command(app, exit_code);
   add_compare_command(app, exit_code);
+  io::OutputBatch outputs;  // a command's output files appear together, or none of them does
   try {
     app.parse(argc, argv);
+    outputs.commit();
   } catch (const CLI::CallForHelp& e) {
     return app.exit(e);
   } catch (const CLI::CallForAllHelp& e) {
