@@ -398,6 +398,15 @@ fit::CellLog read_cell_log(const DelimitedFile& f, const CellLogOptions& opts) {
       log.section_starts.push_back(k);
     }
     log.time_s[k] = t + offset;
+    // The axis must stay finite and strictly increasing (fit::CellLog): a time that overflows
+    // its unit, or one so large (1e300 s) that the rows' steps round away, is refused here.
+    if (!std::isfinite(log.time_s[k]))
+      throw InputError(message(Source{f.file, {}}, "line " + std::to_string(lines[k]), "time out of range",
+                               "\"" + fmt(t_raw[k]) + "\"", "a finite time in " + ut.si));
+    if (k > 0 && !(log.time_s[k] > log.time_s[k - 1]))
+      throw InputError(message(Source{f.file, {}}, "line " + std::to_string(lines[k]),
+                               "time too large to tell apart from the row before", "\"" + fmt(t_raw[k]) + "\"",
+                               "times whose steps survive rounding (below about 1e15 s)"));
     log.current_A[k] = ui.scale * i_raw[k] / opts.parallel;
     log.voltage_V[k] = uv.scale * v_raw[k] / opts.series;
     if (!(log.voltage_V[k] > 0.0) || log.voltage_V[k] > 10.0)
