@@ -25,7 +25,9 @@ std::vector<double> table_points(const Table& a, const Table& b) {
 
 propulsion::Prop read_prop(ObjectReader& r) {
   propulsion::Prop p;
-  p.diameter_m = r.number("diameter_m", above_to(0.0, 10.0, "m"));
+  // From 1 cm: the smallest props flown are about 3 cm, and a diameter like 1e-300 m made the
+  // disc area underflow to 0 (the momentum-theory inflow divides by it).
+  p.diameter_m = r.number("diameter_m", between(0.01, 10.0, "m"));
   const Range rj = between(0.0, 10.0, "");
   p.ct = r.number_or_table("ct", "J", "value", rj, between(-1.0, 1.0, ""));
   p.cp = r.number_or_table("cp", "J", "value", rj, between(-1.0, 1.0, ""));
