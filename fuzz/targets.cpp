@@ -1,0 +1,223 @@
+#include "targets.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <optional>
+#include <stdexcept>
+#include <string>
+
+#include "battery/pack.hpp"
+#include "core/error.hpp"
+#include "flight/airframe.hpp"
+#include "flight/fixed_wing.hpp"
+#include "flight/thrust_need.hpp"
+#include "io/airframe_json.hpp"
+#include "io/battery_json.hpp"
+#include "io/bench_csv.hpp"
+#include "io/cell_log_csv.hpp"
+#include "io/csv.hpp"
+#include "io/drive_json.hpp"
+#include "io/load_csv.hpp"
+#include "io/log_columns.hpp"
+#include "io/profile_json.hpp"
+#include "propulsion/bench_map.hpp"
+#include "propulsion/operating_point.hpp"
+#include "report/discharge_report.hpp"
+#include "report/mission_report.hpp"
+#include "sim/discharge.hpp"
+#include "sim/mission.hpp"
+#include "sim/replay.hpp"
+
+namespace sortie::fuzz {
+
+namespace {
+
+// Work bounds for the short simulations: small enough that one input runs in milliseconds,
+// large enough that every bundled model and profile runs to its end.
+constexpr std::size_t kMaxSteps = 20000;    // per discharge, per mission phase, per replay stretch
+constexpr std::size_t kMaxSamples = 20000;  // trace samples per discharge or mission
+constexpr double kBriefSeconds = 60.0;      // a brief discharge
+
+std::filesystem::path g_root;  // the models folder (use_models_from)
+
+io::Source source_in(const std::string& folder, const std::string& name) {
+  if (g_root.empty()) throw std::logic_error("sortie::fuzz: use_models_from() was not called");
+  return io::Source{name, g_root / folder, g_root};
+}
+
+/// The demo pack the CSV loads run on (a bundled model, read once).
+const battery::Pack& demo_pack() {
+  static const battery::Pack pack =
+      io::load_pack_file(g_root / "models" / "packs" / "demo-4s1p-lipo-5000.json");
+  return pack;
+}
+
+/// A model that passed validation must simulate to numbers: a NaN or an infinity here means a
+/// range check is missing at load (STYLE.md rule 6), so it is a bug like a crash.
+void require_finite(double v, const char* what) {
+  if (!std::isfinite(v)) throw std::logic_error(std::string("non-finite ") + what + " from a model that loaded");
+}
+
+/// Run the reports too: they format every number the simulation produced.
+void report_discharge(const battery::Pack& pack, const std::string& label, const sim::DischargeResult& r) {
+  require_finite(r.time_to_end_s, "discharge time");
+  require_finite(r.charge_Ah, "discharge charge");
+  require_finite(r.energy_Wh, "discharge energy");
+  require_finite(r.soc_end, "final state of charge");
+  (void)report::discharge_text(pack, label, r);
+  (void)report::discharge_json(pack, label, r).dump(2);
+  (void)report::discharge_trace_csv(r);
+}
+
+/// A minute at about 1 C, once at constant current and once under a power ramp.
+void discharge_briefly(const battery::Pack& pack) {
+  const double i_1c = std::min(pack.cell.capacity_Ah * pack.parallel, 1000.0);
+  const double v = pack.series * pack.cell.ocv_V(0.5);
+  sim::DischargeSpec spec;
+  spec.load = sim::DischargeSpec::Load::series;
+  spec.cutoff_cell_V = pack.cell.v_cutoff_V;
+  spec.sample_s = 1.0;
+  spec.max_steps = kMaxSteps;
+  spec.max_samples = kMaxSamples;
+  spec.series.time_s = {0.0, kBriefSeconds};
+  spec.series.quantity = sim::LoadSeries::Quantity::current;
+  spec.series.value = {i_1c, i_1c};
+  report_discharge(pack, "fuzz current", sim::discharge(pack, spec));
+  spec.series.quantity = sim::LoadSeries::Quantity::power;
+  spec.series.value = {0.5 * i_1c * v, 2.0 * i_1c * v};
+  report_discharge(pack, "fuzz power", sim::discharge(pack, spec));
+}
+
+void run_cell(const std::string& text) {
+  battery::Pack pack;
+  pack.cell = io::parse_cell_json(text, source_in("models/cells", "fuzz-cell.json"));
+  pack.series = 4;
+  discharge_briefly(pack);
+  pack.temperature_C = -10.0;  // the temperature tables' scaling
+  discharge_briefly(pack);
+}
+
+void run_pack(const std::string& text) {
+  discharge_briefly(io::parse_pack_json(text, source_in("models/packs", "fuzz-pack.json")));
+}
+
+void run_drive(const std::string& text) {
+  const propulsion::Drive d = io::parse_drive_json(text, source_in("models/drives", "fuzz-drive.json"));
+  const double v_bus = 14.8, rho = 1.225;
+  const auto half = propulsion::at_duty(d, 0.5, 0.0, rho, v_bus);
+  const double t = std::isfinite(half.motor.thrust_N) && half.motor.thrust_N > 0 ? half.motor.thrust_N : 5.0;
+  const auto hover = propulsion::solve(d, t, 0.0, rho, v_bus);
+  (void)propulsion::solve(d, 1.5 * t, 12.0, 0.9 * rho, 22.2);
+  (void)propulsion::thrust_available(d, 8.0, rho, v_bus);
+  if (hover.motor.status != propulsion::MotorStatus::infeasible)
+    (void)propulsion::bus_load(d, hover.motor).power_W(v_bus);
+}
+
+void run_airframe(const std::string& text) {
+  const flight::Airframe a = io::parse_airframe_json(text, source_in("models/airframes", "fuzz-airframe.json"));
+  flight::FlightCondition c;
+  c.mass_kg = flight::all_up_mass_kg(a, 0.6);
+  c.rotors = 4;
+  c.disk_area_m2 = 0.1;
+  for (const auto& [v, vz] : {std::pair{0.0, 0.0}, {12.0, 0.0}, {0.0, 2.0}, {0.0, -3.0}, {15.0, 1.5}, {25.0, -2.0}}) {
+    c.airspeed_mps = v;
+    c.climb_rate_mps = vz;
+    (void)flight::thrust_need(a, c);
+  }
+  if (const auto* w = std::get_if<flight::FixedWing>(&a)) (void)flight::wing_speeds(*w, c.mass_kg, c.density_kg_m3);
+}
+
+void run_profile(const std::string& text) {
+  const io::LoadedProfile lp = io::parse_profile_json(text, source_in("profiles", "fuzz-profile.json"));
+  sim::SimOptions so;
+  so.sample_s = 5.0;  // as `sortie fly --trace --sample-s 5`
+  so.max_steps_per_phase = kMaxSteps;
+  so.max_trace_samples = kMaxSamples;
+  const sim::MissionResult r = sim::simulate(lp.mission, so);
+  if (r.refused) {
+    (void)io::refusal_message(lp, r);
+    return;
+  }
+  require_finite(r.flight_time_s, "flight time");
+  require_finite(r.energy_Wh, "flight energy");
+  require_finite(r.landing.soc, "landing state of charge");
+  const sim::SpareResult none;
+  (void)report::fly_text(lp.mission, r, none);
+  (void)report::fly_json(lp.mission, r, none).dump(2);
+  (void)report::fly_trace_csv(r);
+  // The spare-time solve: whole simulations again (the bundled profiles need 15 to 18), capped.
+  sim::SpareOptions sp;
+  sp.max_simulations = 25;
+  sp.sim = so;
+  const sim::SpareResult spare = sim::solve_spare(lp.mission, r, sp);
+  (void)report::fly_text(lp.mission, r, spare);
+}
+
+void run_load_csv(const std::string& text) {
+  const io::CsvFile csv = io::parse_csv(text, "fuzz-load.csv");
+  // As `sortie discharge --load` (as the file says, no trace), then with --interpolation step
+  // and --trace at the default spacing.
+  for (const std::optional<bool> step : {std::optional<bool>{}, std::optional<bool>{true}}) {
+    sim::DischargeSpec spec;
+    spec.load = sim::DischargeSpec::Load::series;
+    spec.series = io::read_load_csv(csv, step);
+    spec.cutoff_cell_V = demo_pack().cell.v_cutoff_V;
+    spec.sample_s = step ? 1.0 : 0.0;
+    spec.max_steps = kMaxSteps;
+    spec.max_samples = kMaxSamples;
+    report_discharge(demo_pack(), "fuzz load", sim::discharge(demo_pack(), spec));
+  }
+}
+
+void run_cell_log(const std::string& text) {
+  const io::DelimitedFile f = io::parse_delimited(text, "fuzz-log.csv");
+  io::CellLogOptions numbered;
+  numbered.columns = io::parse_column_spec("time=1,current=2,voltage=3", io::cell_log_quantities());
+  for (const io::CellLogOptions& opts : {io::CellLogOptions{}, numbered}) {
+    fit::CellLog log;
+    try {
+      log = io::read_cell_log(f, opts);
+    } catch (const InputError&) {
+      continue;  // the other option set may still read it
+    }
+    // The replay `sortie fit cell` checks its model with, on the logged current.
+    battery::Pack pack = demo_pack();
+    pack.series = 1;
+    pack.soc0 = 0.9;
+    (void)sim::replay(pack, sim::CurrentLog{log.time_s, log.current_A, log.section_starts}, kMaxSteps);
+  }
+}
+
+void run_bench_csv(const std::string& text) {
+  const propulsion::BenchMap map = io::read_bench_csv(io::parse_csv(text, "fuzz-bench.csv"));
+  const double lo = map.thrust_min_N(), hi = map.thrust_max_N();
+  for (double t : {0.0, lo, 0.5 * (lo + hi), hi, 1.5 * hi})
+    (void)propulsion::bus_load(propulsion::bench_at_thrust(map, t)).power_W(map.v_bus_mean_V);
+}
+
+}  // namespace
+
+const std::vector<Target>& targets() {
+  static const std::vector<Target> all = {
+      {"cell", run_cell},         {"pack", run_pack},         {"drive", run_drive},
+      {"airframe", run_airframe}, {"profile", run_profile},   {"load_csv", run_load_csv},
+      {"cell_log", run_cell_log}, {"bench_csv", run_bench_csv},
+  };
+  return all;
+}
+
+const Target* find_target(std::string_view name) {
+  for (const auto& t : targets())
+    if (name == t.name) return &t;
+  return nullptr;
+}
+
+void use_models_from(const std::filesystem::path& source_dir, const std::filesystem::path& folder) {
+  namespace fs = std::filesystem;
+  fs::create_directories(folder);
+  for (const char* sub : {"models", "profiles"})
+    fs::copy(source_dir / sub, folder / sub, fs::copy_options::recursive | fs::copy_options::overwrite_existing);
+  g_root = fs::canonical(folder);
+}
+
+}  // namespace sortie::fuzz
