@@ -6,6 +6,7 @@
 #include <limits>
 
 #include "core/error.hpp"
+#include "core/text.hpp"
 
 namespace sortie::sim {
 
@@ -22,12 +23,6 @@ const char* to_string(EndReason r) {
 }
 
 namespace {
-
-std::string fixed(double v, int digits) {
-  char buf[64];
-  std::snprintf(buf, sizeof buf, "%.*f", digits, v);
-  return buf;
-}
 
 /// The demand of one stretch [t_i, t_{i+1}] of a load series.
 Demand series_demand(const LoadSeries& s, std::size_t i) {
@@ -100,8 +95,8 @@ DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec) 
     for (const auto& w : seg.warnings) {
       const double per_cell = w.at.term.current_A / pack.parallel;
       out.events.push_back({w.at.t - t_start, "over_current",
-                            "cell current " + fixed(per_cell, 1) + " A above the continuous limit " +
-                                fixed(pack.cell.i_cont_max_A, 1) + " A"});
+                            "cell current " + format_fixed(per_cell, 1) + " A above the continuous limit " +
+                                format_fixed(pack.cell.i_cont_max_A, 1) + " A"});
     }
     end = seg.end;
     track(end);
@@ -128,14 +123,14 @@ DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec) 
     detail = "the load ended";
   } else if (*stopped == kCutoff) {
     out.end_reason = EndReason::cutoff_voltage;
-    detail = "loaded cell voltage reached " + fixed(spec.cutoff_cell_V, 3) + " V";
+    detail = "loaded cell voltage reached " + format_fixed(spec.cutoff_cell_V, 3) + " V";
   } else if (*stopped == kFloor) {
     out.end_reason = EndReason::soc_floor;
-    detail = "state of charge reached " + fixed(spec.soc_floor * 100, 1) + " %";
+    detail = "state of charge reached " + format_fixed(spec.soc_floor * 100, 1) + " %";
   } else {
     out.end_reason = EndReason::power_collapse;
     detail = "the pack cannot deliver the power asked for: maximum " +
-             fixed(end.term.v_terminal_V * end.term.current_A, 1) + " W";
+             format_fixed(end.term.v_terminal_V * end.term.current_A, 1) + " W";
   }
   out.events.push_back({out.time_to_end_s, to_string(out.end_reason), detail});
   return out;

@@ -1,4 +1,5 @@
 #include "sim/mission.hpp"
+#include "core/text.hpp"
 
 #include <algorithm>
 #include <cmath>
@@ -21,11 +22,6 @@ namespace {
 
 constexpr double kInf = std::numeric_limits<double>::infinity();
 
-std::string fixed(double v, int digits) {
-  char buf[64];
-  std::snprintf(buf, sizeof buf, "%.*f", digits, v);
-  return buf;
-}
 
 bool is_multirotor(const flight::Airframe& a) { return std::holds_alternative<flight::Multirotor>(a); }
 
@@ -106,7 +102,7 @@ std::optional<SegmentSetup> setup_stretch(const Mission& m, const Phase& p, doub
                                           std::vector<std::string>& warnings) {
   const auto air = m.environment.atmosphere.at(h_mid);
   if (!air) {
-    why = "height " + fixed(h_mid, 0) + " m above the field is beyond the ISA troposphere (11 km)";
+    why = "height " + format_fixed(h_mid, 0) + " m above the field is beyond the ISA troposphere (11 km)";
     field = "to_height_m";
     return std::nullopt;
   }
@@ -126,15 +122,15 @@ std::optional<SegmentSetup> setup_stretch(const Mission& m, const Phase& p, doub
   if (need.status == flight::FlightStatus::vortex_ring) warnings.push_back("vortex_ring: " + need.detail);
   const auto mp = prop::solve_motor(m.drive, need.thrust_per_rotor_N, need.axial_mps, air->density_kg_m3);
   if (mp.status == prop::MotorStatus::infeasible) {
-    why = "the drive has no operating point for " + fixed(need.thrust_per_rotor_N, 2) +
-          " N per rotor at " + fixed(need.axial_mps, 1) + " m/s axial speed";
+    why = "the drive has no operating point for " + format_fixed(need.thrust_per_rotor_N, 2) +
+          " N per rotor at " + format_fixed(need.axial_mps, 1) + " m/s axial speed";
     field = "kind";
     return std::nullopt;
   }
   if (mp.status == prop::MotorStatus::over_current) {
     const double lim = std::min(m.drive.motor.i_max_A, m.drive.esc.i_max_A);
-    warnings.push_back("motor_over_current: motor current " + fixed(mp.i_motor_A, 1) + " A above the " +
-                       fixed(lim, 1) + " A limit of the " + (mp.motor_over_current ? "motor" : "ESC"));
+    warnings.push_back("motor_over_current: motor current " + format_fixed(mp.i_motor_A, 1) + " A above the " +
+                       format_fixed(lim, 1) + " A limit of the " + (mp.motor_over_current ? "motor" : "ESC"));
   }
   const auto bl = prop::bus_load(m.drive, mp);
   SegmentSetup s;
@@ -333,17 +329,17 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
           reserve_v_seen = true;
           out.events.push_back({w.at.t, "reserve_v_load", pi,
                                 "loaded cell voltage fell below the reserve " +
-                                    fixed(*m.reserve.v_load_cell_min_V, 2) + " V"});
+                                    format_fixed(*m.reserve.v_load_cell_min_V, 2) + " V"});
         } else if (w.event == kResSoc && !reserve_soc_seen) {
           reserve_soc_seen = true;
           out.events.push_back({w.at.t, "reserve_soc", pi,
                                 "state of charge fell below the reserve " +
-                                    fixed(*m.reserve.soc_min * 100, 0) + " %"});
+                                    format_fixed(*m.reserve.soc_min * 100, 0) + " %"});
         } else if (w.event == kOverCurrent && !warned_over_current) {
           warned_over_current = true;
           out.events.push_back({w.at.t, "over_current", pi,
-                                "cell current " + fixed(w.at.term.current_A / m.pack.parallel, 1) +
-                                    " A above the continuous limit " + fixed(m.pack.cell.i_cont_max_A, 1) + " A"});
+                                "cell current " + format_fixed(w.at.term.current_A / m.pack.parallel, 1) +
+                                    " A above the continuous limit " + format_fixed(m.pack.cell.i_cont_max_A, 1) + " A"});
         }
       }
       (void)cell_i_limit;
@@ -358,16 +354,16 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
         out.end_kind = events[*seg.stopped].kind;
         const double v = seg.end.term.v_terminal_V;
         if (*seg.stopped == kCutoff) {
-          out.end_detail = "loaded cell voltage reached the cutoff " + fixed(cutoff, 2) + " V";
+          out.end_detail = "loaded cell voltage reached the cutoff " + format_fixed(cutoff, 2) + " V";
         } else if (*seg.stopped == kSaturation) {
           const double avail = prop::thrust_available(m.drive, setup->axial_mps, setup->rho, v);
           const double need = setup->thrust_N;
-          out.end_detail = "the drive cannot give the thrust needed: at " + fixed(v, 2) + " V it gives " +
-                           fixed(avail, 2) + " N per rotor at full duty, the phase needs " + fixed(need, 2) +
-                           " N (short by " + fixed(need - avail, 2) + " N, " +
-                           fixed(100 * (need - avail) / need, 1) + " %)";
+          out.end_detail = "the drive cannot give the thrust needed: at " + format_fixed(v, 2) + " V it gives " +
+                           format_fixed(avail, 2) + " N per rotor at full duty, the phase needs " + format_fixed(need, 2) +
+                           " N (short by " + format_fixed(need - avail, 2) + " N, " +
+                           format_fixed(100 * (need - avail) / need, 1) + " %)";
         } else if (*seg.stopped == kCollapse) {
-          out.end_detail = "power collapse: the pack cannot deliver " + fixed(setup->demand.a + setup->demand.b * v, 0) + " W";
+          out.end_detail = "power collapse: the pack cannot deliver " + format_fixed(setup->demand.a + setup->demand.b * v, 0) + " W";
         } else {
           out.end_detail = "the pack is empty (state of charge 0)";
         }
@@ -573,7 +569,7 @@ SpareResult solve_spare(const Mission& m, const MissionResult& base, const Spare
     while (fhi >= 0.0) {
       if (hi > 1e6) {
         out.spare_s = hi;
-        out.note = "more than " + fixed(hi / 3600, 0) + " h";
+        out.note = "more than " + format_fixed(hi / 3600, 0) + " h";
         return out;
       }
       lo = hi;
