@@ -7,12 +7,16 @@
 # Seeds: the bundled models/** and profiles/** that a target reads, fuzz/corpus/<target>/ and
 # fuzz/regressions/<target>/. Inputs the fuzzer finds interesting go to OUT/corpus/<target>/,
 # crashes, timeouts and out-of-memory inputs to OUT/crashes/<target>/, logs to OUT/logs/.
-# A run keeps going after a crash (-fork=1 -ignore_crashes=1) until its time is up.
+# Before fuzzing, every boundary-value variant of the seeds (fuzz/sweep_seeds.cpp: each number set
+# to 0, ±1e300, 1e-300, the largest double, 1e±9 in turn) runs once; a variant that fails is kept
+# with the crashes (named sweep-*) and the pass goes on without it. Then the fuzzer runs for
+# SECONDS and keeps going after a crash (-fork=1 -ignore_crashes=1) until its time is up.
 # Exit status: 0 when no target left a crash file, 1 otherwise.
 #
 # Environment: SORTIE_FUZZ_BUILD (default build-fuzz), SORTIE_FUZZ_OUT (default
 # <build>/fuzz-out), CXX (default clang++), SORTIE_FUZZ_JOBS for the build (default 2),
-# SORTIE_FUZZ_NO_BUILD=1 to run the targets already built (while the tree does not build).
+# SORTIE_FUZZ_NO_BUILD=1 to run the targets already built (while the tree does not build),
+# SORTIE_FUZZ_SWEEP=0 to leave out the boundary-value pass.
 set -euo pipefail
 
 seconds=${1:-60}
@@ -36,6 +40,7 @@ if [[ ${SORTIE_FUZZ_NO_BUILD:-0} != 1 ]]; then
     -DCMAKE_BUILD_TYPE=RelWithDebInfo -DCMAKE_CXX_FLAGS_RELWITHDEBINFO="-O1 -g" >/dev/null
   build_targets=()
   for t in "${targets[@]}"; do build_targets+=(--target "fuzz_$t"); done
+  build_targets+=(--target sweep_seeds)
   cmake --build "$build" -j"${SORTIE_FUZZ_JOBS:-2}" "${build_targets[@]}"
 fi
 for t in "${targets[@]}"; do
@@ -67,6 +72,26 @@ seeds_of() {  # bundled files a target reads, then its own seeds and past crash 
   return 0
 }
 
+# Every boundary-value variant of the seeds once. libFuzzer stops at the first failing input:
+# that one is kept (artifact sweep-*), taken out, and the pass starts again.
+sweep() {
+  local t=$1 dir="$out/sweep/$1" log="$out/logs/$1.sweep.log" files
+  rm -rf "$dir"
+  mapfile -t files < <(for d in "${seeds[@]}"; do find "$d" -type f; done)
+  "$build/fuzz/sweep_seeds" "$dir" "${files[@]}" | sed 's/^/   sweep: /'
+  for _ in $(seq 1 50); do
+    if (cd "$out/logs" && "$build/fuzz/fuzz_$t" -runs=0 -timeout=10 -rss_limit_mb=2048 \
+      -artifact_prefix="$out/crashes/$t/sweep-" "$dir" >"$log" 2>&1); then
+      return 0
+    fi
+    local unit
+    unit=$(sed -n 's/.*Test unit written to //p' "$log" | tail -1)
+    [[ -n $unit && -f $unit ]] || return 0
+    echo "   sweep: $(grep -m1 -E 'ERROR|uncaught|runtime error|Assertion' "$log" | cut -c1-160)"
+    for f in "$dir"/*; do cmp -s "$f" "$unit" && rm -f "$f"; done
+  done
+}
+
 status=0
 for t in "${targets[@]}"; do
   mkdir -p "$out/corpus/$t" "$out/crashes/$t"
@@ -74,13 +99,14 @@ for t in "${targets[@]}"; do
   case $t in load_csv | cell_log | bench_csv) dict="$repo/fuzz/csv.dict" ;; esac
   mapfile -t seeds < <(seeds_of "$t")
   echo "== $t: ${seconds} s (log: $out/logs/$t.log)"
+  [[ ${SORTIE_FUZZ_SWEEP:-1} == 0 ]] || sweep "$t"
   # -timeout: one input taking over 10 s is a hang; -rss_limit_mb: a runaway allocation.
   (cd "$out/logs" &&
     "$build/fuzz/fuzz_$t" -max_total_time="$seconds" -timeout=10 -rss_limit_mb=2048 \
       -fork=1 -ignore_crashes=1 -ignore_timeouts=1 -ignore_ooms=1 \
       -artifact_prefix="$out/crashes/$t/" -dict="$dict" -print_final_stats=1 \
       "$out/corpus/$t" "${seeds[@]}" >"$out/logs/$t.log" 2>&1) || true
-  found=$(find "$out/crashes/$t" -maxdepth 1 -type f \( -name 'crash-*' -o -name 'timeout-*' -o -name 'oom-*' -o -name 'leak-*' \) | wc -l)
+  found=$(find "$out/crashes/$t" -maxdepth 1 -type f \( -name '*crash-*' -o -name '*timeout-*' -o -name '*oom-*' -o -name '*leak-*' \) | wc -l)
   corpus=$(find "$out/corpus/$t" -type f | wc -l)
   grep -E '^#[0-9]+.*(DONE|cov:)' "$out/logs/$t.log" | tail -1 || true
   echo "   corpus $corpus inputs, $found crash/timeout/oom inputs in $out/crashes/$t"
