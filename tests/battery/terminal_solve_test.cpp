@@ -10,7 +10,7 @@ using namespace sortie;
 
 TEST_SUITE("battery") {
 
-TEST_CASE("power demand with the EMF at or below zero is a collapse, not a huge negative current") {
+TEST_CASE("power demand with the EMF at or below zero is a collapse — not a huge negative current") {
   // With E ≤ 0 (an integrator's trial stage can push the RC voltages past the OCV) the
   // quadratic R0·I² − E·I + P = 0 still has real roots, and 2P/(E + √D) picked one near
   // −E/R0·1e4: a charging current that blew the state up into NaN.

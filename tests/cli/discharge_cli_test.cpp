@@ -102,7 +102,7 @@ TEST_CASE("bad input: unknown field suggests the nearest valid key") {
   expect_refused(write_pack("unknown", c), {"/capacity_ah", "unknown field", "did you mean 'capacity_Ah'"});
 }
 
-TEST_CASE("bad input: zero or negative capacity, resistance, time constant, series, parallel") {
+TEST_CASE("bad input: zero or negative capacity — resistance — time constant — series — parallel") {
   json c = base_cell();
   c["capacity_Ah"] = 0;
   expect_refused(write_pack("cap0", c), {"/capacity_Ah", "got 0", "> 0 Ah"});
@@ -135,7 +135,7 @@ TEST_CASE("bad input: OCV not increasing with SoC") {
   expect_refused(write_pack("ocv", c), {"/ocv/V/3", "OCV not increasing", "got 3.6"});
 }
 
-TEST_CASE("bad input: SoC outside [0, 1]") {
+TEST_CASE("bad input: SoC outside 0 to 1") {
   json c = base_cell();
   c["ocv"]["soc"][10] = 1.2;
   expect_refused(write_pack("socrange", c), {"/ocv/soc/10", "got 1.2", "from 0 to 1"});
@@ -176,7 +176,7 @@ TEST_CASE("bad input: initial resting voltage outside the OCV table") {
                  {"vrest-pack.json", "/v_rest_cell0_V", "got 4.5 V", "from 3.27 to 4.2 V"});
 }
 
-TEST_CASE("bad input: load CSV with a missing column, non-increasing time, text in a number") {
+TEST_CASE("bad input: load CSV with a missing column — non-increasing time — text in a number") {
   const std::string pack = source_path(kDemoPack);
   const std::string a = write_work_file("nocol.csv", "time_s,amps\n0,1\n10,1\n");
   expect_refused(pack, {"nocol.csv", "line 1", "missing column", "current_A"}, {"--load", a});

@@ -49,7 +49,7 @@ const std::string kBench =
 
 TEST_SUITE("cli") {
 
-TEST_CASE("drive: a sweep of each demo drive, with units in every column") {
+TEST_CASE("drive: a sweep of each demo drive — with units in every column") {
   for (const std::string f : {"models/drives/demo-quad-15in.json", "models/drives/demo-hex-10in.json",
                               "models/drives/demo-pusher-10x6.json"}) {
     CAPTURE(f);
@@ -166,7 +166,7 @@ TEST_CASE("drive: bad usage exits 2 with one line") {
   }
 }
 
-TEST_CASE("drive: a broken drive file exits 1 naming the file, the pointer and the value, writing nothing") {
+TEST_CASE("drive: a broken drive file exits 1 naming the file — the pointer and the value — writing nothing") {
   struct Case {
     std::string from, to, message;
   };
@@ -199,7 +199,7 @@ TEST_CASE("drive: a broken drive file exits 1 naming the file, the pointer and t
   }
 }
 
-TEST_CASE("drive: --bench shows the measured map, alone or beside the model") {
+TEST_CASE("drive: --bench shows the measured map — alone or beside the model") {
   const std::string bench = write_work_file("bench-good.csv", kBench);
   const auto alone = run_sortie({"drive", "--bench", bench});
   CHECK(alone.exit_code == 0);

@@ -51,7 +51,7 @@ TEST_CASE("fly: every demo profile runs and writes its JSON result") {
   }
 }
 
-TEST_CASE("fly: the quadcopter demo is a go, the hexacopter demo a no-go naming its failed rule") {
+TEST_CASE("fly: the quadcopter demo is a go — the hexacopter demo a no-go naming its failed rule") {
   const auto go = run_sortie({"fly", source_path("profiles/demo-quad-water-tank.json")});
   CHECK(go.exit_code == 0);
   CHECK(go.out.find(">> GO") != std::string::npos);
@@ -76,7 +76,7 @@ TEST_CASE("fly: a lighter sensor turns the hexacopter no-go into a go") {
   CHECK(r.out.empty());
 }
 
-TEST_CASE("fly: --pack replaces the profile's pack; --trace has the mission columns") {
+TEST_CASE("fly: --pack replaces the profile's pack — --trace has the mission columns") {
   const std::string tr = work_path("fly-trace.csv");
   const auto r = run_sortie({"fly", source_path("profiles/demo-quad-water-tank.json"), "--pack",
                              source_path("models/packs/demo-4s1p-lipo-5000.json"), "--trace", tr, "--json", "-"});
@@ -116,7 +116,7 @@ TEST_CASE("fly: bad profiles are refused with a pointer and no output") {
   }
 }
 
-TEST_CASE("compare: packs ranked by spare time, heavier packs heavier aircraft") {
+TEST_CASE("compare: packs ranked by spare time — heavier packs heavier aircraft") {
   const auto r = run_sortie({"compare", source_path("profiles/demo-quad-water-tank.json"), "--series", "4,6",
                              "--capacity-Ah", "3,5", "--json", "-"});
   REQUIRE(r.exit_code == 0);

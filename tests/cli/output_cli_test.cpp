@@ -18,7 +18,7 @@ TEST_CASE("fly: a trace that cannot be written leaves no JSON either") {
   CHECK_FALSE(file_exists(json + ".part"));
 }
 
-TEST_CASE("discharge: a trace too fine for the run is one line, exit 1, and no file written") {
+TEST_CASE("discharge: a trace too fine for the run is one line — exit 1 — and no file written") {
   // 5 Ah at 10 mA is 500 h: at 1 ms spacing that is 1.8e9 trace rows, more than any memory.
   const std::string json = work_path("fine-trace.json"), trace = work_path("fine-trace.csv");
   const auto r = run_sortie({"discharge", source_path("models/packs/demo-4s1p-lipo-5000.json"), "--current", "0.01",

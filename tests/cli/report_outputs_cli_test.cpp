@@ -104,7 +104,7 @@ std::vector<std::string> lines_of(const std::string& text) {
 
 TEST_SUITE("cli") {
 
-TEST_CASE("fly --html: the demo page has its plots, and its numbers are those of --json") {
+TEST_CASE("fly --html: the demo page has its plots — and its numbers are those of --json") {
   const Page p = page_of({"fly", source_path(kQuadProfile)}, "fly-quad");
   CHECK(p.exit_code == 0);
   CHECK(plot_ids(p.x) == promised(sortie::report::kFlyPlots));
@@ -115,14 +115,14 @@ TEST_CASE("fly --html: the demo page has its plots, and its numbers are those of
   CHECK(curves_in(p.x, "fly-voltage-soc") == 3);  // loaded, open-circuit, SoC
 }
 
-TEST_CASE("fly --html: a no-go run still writes its page, NO-GO first, with exit code 3") {
+TEST_CASE("fly --html: a no-go run still writes its page — NO-GO first — with exit code 3") {
   const Page p = page_of({"fly", source_path(kHexaProfile)}, "fly-hexa");
   CHECK(p.exit_code == 3);
   CHECK(has(p.html, ">NO-GO</div>"));
   CHECK(p.j["verdict"] == "no-go");
 }
 
-TEST_CASE("compare --html: spare time and landing charge per pack, no-go packs marked") {
+TEST_CASE("compare --html: spare time and landing charge per pack — no-go packs marked") {
   const Page p = page_of({"compare", source_path(kQuadProfile), "--series", "4,6", "--capacity-Ah", "3,5"}, "compare");
   CHECK(p.exit_code == 0);
   CHECK(plot_ids(p.x) == promised(sortie::report::kComparePlots));
@@ -139,7 +139,7 @@ TEST_CASE("compare --html: spare time and landing charge per pack, no-go packs m
   }
 }
 
-TEST_CASE("drive --html: three efficiency plots, one curve per cell count") {
+TEST_CASE("drive --html: three efficiency plots — one curve per cell count") {
   const Page p = page_of({"drive", source_path(kDrive), "--sweep", "--cells", "4,6"}, "drive");
   CHECK(p.exit_code == 0);
   CHECK(plot_ids(p.x) == promised(sortie::report::kDrivePlots));
@@ -148,14 +148,14 @@ TEST_CASE("drive --html: three efficiency plots, one curve per cell count") {
   CHECK(has_key(p.keys, "points.37.eta_esc"));  // 19 throttle steps × 2 packs
 }
 
-TEST_CASE("discharge --html: voltage and charge, current and power") {
+TEST_CASE("discharge --html: voltage and charge — current and power") {
   const Page p = page_of({"discharge", source_path(kPack), "--power", "300"}, "discharge");
   CHECK(p.exit_code == 0);
   CHECK(plot_ids(p.x) == promised(sortie::report::kDischargePlots));
   CHECK(has_key(p.keys, "time_to_end_s"));
 }
 
-TEST_CASE("fit cell --html: voltage, error, OCV and resistance plots, numbers equal to --json") {
+TEST_CASE("fit cell --html: voltage — error — OCV and resistance plots — numbers equal to --json") {
   const Page p = page_of({"fit", "cell", source_path("models/logs/demo-hppc-synthetic.csv"), "--out",
                           work_path("fit-cell-model.json")},
                          "fit-cell");
@@ -167,7 +167,7 @@ TEST_CASE("fit cell --html: voltage, error, OCV and resistance plots, numbers eq
   CHECK(curves_in(p.x, "fit-cell-voltage") == 2);  // measured and model
 }
 
-TEST_CASE("fit drive --html: thrust, power, residual and efficiency plots, numbers equal to --json") {
+TEST_CASE("fit drive --html: thrust — power — residual and efficiency plots — numbers equal to --json") {
   const Page p = page_of({"fit", "drive", source_path("models/logs/demo-bench-synthetic.csv"), "--out",
                           work_path("fit-drive-model.json"), "--diameter-m", "0.381"},
                          "fit-drive");
@@ -193,7 +193,7 @@ TEST_CASE("--html: bad input writes no page at all") {
   CHECK(has(r.err, "no-such-folder/page.html"));
 }
 
-TEST_CASE("--format json prints the JSON result, the same as --json -") {
+TEST_CASE("--format json prints the JSON result — the same as --json -") {
   const std::vector<std::vector<std::string>> runs = {
       {"fly", source_path(kQuadProfile)},
       {"compare", source_path(kQuadProfile), "--series", "6", "--capacity-Ah", "5"},
@@ -212,7 +212,7 @@ TEST_CASE("--format json prints the JSON result, the same as --json -") {
   }
 }
 
-TEST_CASE("--format csv: fly phases, compare rows, drive points and the discharge trace") {
+TEST_CASE("--format csv: fly phases — compare rows — drive points and the discharge trace") {
   auto csv = [](std::vector<std::string> args) {
     args.insert(args.end(), {"--format", "csv"});
     const auto r = run_sortie(args);
@@ -243,7 +243,7 @@ TEST_CASE("--format csv: fly phases, compare rows, drive points and the discharg
   CHECK(dis.size() > 20);
 }
 
-TEST_CASE("--quiet prints nothing on every command, and still writes the files asked for") {
+TEST_CASE("--quiet prints nothing on every command — and still writes the files asked for") {
   const std::string html = work_path("quiet.html");
   const std::vector<std::vector<std::string>> runs = {
       {"fly", source_path(kQuadProfile)},

@@ -9,7 +9,7 @@ using sortie::MonotoneCubic;
 
 TEST_SUITE("core") {
 
-TEST_CASE("monotone cubic: straight lines stay straight, points are kept") {
+TEST_CASE("monotone cubic: straight lines stay straight — points are kept") {
   // Equal secants give equal slopes (the harmonic mean of equal numbers, and the three-point
   // end rule on a line), so linear data are reproduced exactly, inside and beyond the ends.
   const MonotoneCubic line({0.0, 0.5, 2.0, 3.0, 7.0}, {1.0, 2.0, 5.0, 7.0, 15.0});

@@ -30,7 +30,7 @@ TEST_CASE("find_root: the iteration cap is a LimitError naming the bracket") {
   CHECK(std::fabs(*r - 1.0 / 3.0) < 1e-9);
 }
 
-TEST_CASE("find_root: a sign change across a bracket of no width is its point, not a boost domain_error") {
+TEST_CASE("find_root: a sign change across a bracket of no width is its point — not a boost domain_error") {
   // Found by the load_csv fuzz target (fuzz/regressions/load_csv/time-minus-1e300-s.csv): an
   // integration step too short to move t = -1e300 s bracketed an event on [t, t], and TOMS 748
   // threw std::domain_error ("Parameters a and b out of order").

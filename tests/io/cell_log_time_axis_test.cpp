@@ -24,7 +24,7 @@ std::string error_of(const std::string& text) {
 
 TEST_SUITE("io") {
 
-TEST_CASE("cell log: a time of 1e300 s before a clock reset is refused, not an axis with equal times") {
+TEST_CASE("cell log: a time of 1e300 s before a clock reset is refused — not an axis with equal times") {
   // Found by the cell_log fuzz target (fuzz/regressions/cell_log/time-1e300-then-reset-rounds-axis.csv):
   // the section after the reset continued the axis at 1e300 + 1 s, where steps of 10 s round
   // away; equal times broke sim::replay's assertion that every row lies inside a step.

@@ -22,7 +22,7 @@ std::string drive_with_diameter(const std::string& d) {
 
 TEST_SUITE("io") {
 
-TEST_CASE("drive reader: a prop diameter of 1e-300 m is refused, not a disc area of 0") {
+TEST_CASE("drive reader: a prop diameter of 1e-300 m is refused — not a disc area of 0") {
   // Found by the profile fuzz target (fuzz/regressions/profile/prop-diameter-1e-300-m-disc-area-zero.json):
   // π·D²/4 underflowed to 0 and the multirotor inflow's assertion (disc area > 0) failed.
   const io::Source src{"drive.json"};

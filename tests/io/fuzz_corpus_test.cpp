@@ -133,7 +133,7 @@ TEST_CASE("fuzz targets: the bundled models and profiles load and run") {
   bundled_load("profile", "profiles");
 }
 
-TEST_CASE("fuzz targets: a model path outside the models folder is refused, not opened") {
+TEST_CASE("fuzz targets: a model path outside the models folder is refused — not opened") {
   prepare();
   const auto* pack = sortie::fuzz::find_target("pack");
   REQUIRE(pack != nullptr);

@@ -29,7 +29,7 @@ std::string pack_error(const std::string& content) {
 
 TEST_SUITE("io") {
 
-TEST_CASE("json_reader: a model path too long for the file system is bad input, not a filesystem_error") {
+TEST_CASE("json_reader: a model path too long for the file system is bad input — not a filesystem_error") {
   // A file name longer than NAME_MAX (255 on Linux) made std::filesystem::is_regular_file throw
   // std::filesystem::filesystem_error ("File name too long"), reported as an internal error.
   const std::string name(5000, 'a');
@@ -37,7 +37,7 @@ TEST_CASE("json_reader: a model path too long for the file system is bad input, 
   CHECK(err.find("/cell: model file not found") != std::string::npos);
 }
 
-TEST_CASE("json_reader: a file nested a million levels deep is refused, not a stack overflow") {
+TEST_CASE("json_reader: a file nested a million levels deep is refused — not a stack overflow") {
   // Parsing or quoting such a value in a message recursed once per level and crashed.
   const std::string deep = std::string(1000000, '[') + std::string(1000000, ']');
   const std::string err = pack_error("{\"cell\": " + deep + "}");
@@ -46,7 +46,7 @@ TEST_CASE("json_reader: a file nested a million levels deep is refused, not a st
         std::string::npos);
 }
 
-TEST_CASE("json_reader: nesting up to the depth limit still loads, brackets inside strings do not count") {
+TEST_CASE("json_reader: nesting up to the depth limit still loads — brackets inside strings do not count") {
   std::string deep = std::string(io::kMaxJsonDepth - 1, '[') + std::string(io::kMaxJsonDepth - 1, ']');
   const auto j = io::parse_json_text("{\"a\": " + deep + ", \"b\": \"[[[[{{{{\\\"[[[\"}", "text.json");
   CHECK(j.at("b").get<std::string>() == "[[[[{{{{\"[[[");

@@ -14,14 +14,14 @@ using namespace sortie;
 
 TEST_SUITE("io") {
 
-TEST_CASE("write_output: without a batch the file is in place at once, with no temporary left") {
+TEST_CASE("write_output: without a batch the file is in place at once — with no temporary left") {
   const std::string p = test::work_path("out-alone.txt");
   io::write_output(p, "one\n");
   CHECK(test::read_file(p) == "one\n");
   CHECK_FALSE(test::file_exists(p + ".part"));
 }
 
-TEST_CASE("output batch: nothing appears until commit, then every file does") {
+TEST_CASE("output batch: nothing appears until commit — then every file does") {
   const std::string a = test::work_path("out-a.txt"), b = test::work_path("out-b.txt");
   {
     io::OutputBatch batch;

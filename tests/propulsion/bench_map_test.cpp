@@ -84,7 +84,7 @@ TEST_CASE("bench map: a bench made from the parametric model reproduces its bus 
   }
 }
 
-TEST_CASE("bench map: exact laws for shaft power and speed, saturated above the map") {
+TEST_CASE("bench map: exact laws for shaft power and speed — saturated above the map") {
   // Static prop with constant coefficients: shaft power ∝ T^1.5 and n ∝ √T (the coefficient
   // definitions), which the map interpolates exactly; bus power with a fixed part,
   // P0 + c·T^1.5, goes through the monotone cubic: through every row, increasing between them.
@@ -156,7 +156,7 @@ TEST_CASE("bench CSV: headers and units are recognised") {
   CHECK(c.rows[0].rpm == 900.0);
 }
 
-TEST_CASE("bench CSV: every bad file fails with one line naming the file, line and value") {
+TEST_CASE("bench CSV: every bad file fails with one line naming the file — line and value") {
   CHECK(error_of(kGood).empty());
   // Missing column.
   CHECK(error_of("throttle_us,bus_V,bus_A,rpm\n1100,14.8,0.5,1000\n1200,14.8,1.2,1800\n") ==

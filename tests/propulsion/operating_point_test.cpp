@@ -35,7 +35,7 @@ double losses_W(const Drive& d, const OperatingPoint& op) {
 
 TEST_SUITE("propulsion") {
 
-TEST_CASE("operating point: bus power = shaft power + motor loss + ESC loss (property, fixed seed)") {
+TEST_CASE("operating point: bus power = shaft power + motor loss + ESC loss (property — fixed seed)") {
   // Energy conservation through the chain, to 1e-9 relative (the identities hold to rounding).
   const unsigned seed = 20240611;
   MESSAGE("seed " << seed);
@@ -142,7 +142,7 @@ TEST_CASE("operating point: more cells give a lower duty and a lower ESC efficie
   }
 }
 
-TEST_CASE("operating point: a thrust beyond the duty limit is reported saturated, not clamped") {
+TEST_CASE("operating point: a thrust beyond the duty limit is reported saturated — not clamped") {
   const Drive d = load("models/drives/demo-quad-15in.json");
   const double v_bus = 11.1;  // 3S
   const double available = thrust_available(d, 0.0, 1.225, v_bus);
@@ -170,7 +170,7 @@ TEST_CASE("operating point: a thrust beyond the duty limit is reported saturated
   CHECK(over.motor.thrust_N > available);
 }
 
-TEST_CASE("operating point: current above the motor or ESC limit is flagged, not clamped") {
+TEST_CASE("operating point: current above the motor or ESC limit is flagged — not clamped") {
   const Drive d = load("models/drives/demo-quad-15in.json");  // motor 28 A, ESC 35 A
   const OperatingPoint op = solve(d, 30.0, 0.0, 1.225, 22.2);
   CHECK(op.motor.status == MotorStatus::over_current);
@@ -214,7 +214,7 @@ TEST_CASE("operating point: a duty too small to overcome the no-load torque leav
   CHECK(op.bus.status == BusStatus::ok);
 }
 
-TEST_CASE("operating point: a prop that would drive the motor is infeasible, not a number") {
+TEST_CASE("operating point: a prop that would drive the motor is infeasible — not a number") {
   // CP negative while CT is still positive (an invalid table the loader refuses; built here in
   // code): the first-order model does not regenerate, so there is no operating point.
   Drive d = load("models/drives/demo-quad-15in.json");

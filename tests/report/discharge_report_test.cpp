@@ -9,7 +9,7 @@ using sortie::report::duration_hms;
 
 TEST_SUITE("report") {
 
-TEST_CASE("duration_hms: hours, minutes and seconds") {
+TEST_CASE("duration_hms: hours — minutes and seconds") {
   CHECK(duration_hms(3725.0) == "1 h 02 min 05 s");
   CHECK(duration_hms(750.0) == "12 min 30.0 s");
   CHECK(duration_hms(42.3) == "42.3 s");
@@ -17,7 +17,7 @@ TEST_CASE("duration_hms: hours, minutes and seconds") {
   CHECK(duration_hms(std::nan("")) == "-");
 }
 
-TEST_CASE("duration_hms: a time too long for a long integer is formatted, not converted") {
+TEST_CASE("duration_hms: a time too long for a long integer is formatted — not converted") {
   // A load file spanning 1e300 s ran to its end in a few hundred steps; converting its hours
   // to long was undefined behaviour (UBSan: float-cast-overflow).
   CHECK(duration_hms(1e300) == "2.778e+296 h");

@@ -56,7 +56,7 @@ bool has(const std::string& text, const std::string& part) { return text.find(pa
 
 TEST_SUITE("report") {
 
-TEST_CASE("fly html: the demo mission page is well-formed, draws its four plots and matches the JSON") {
+TEST_CASE("fly html: the demo mission page is well-formed — draws its four plots and matches the JSON") {
   const Flown f = fly("profiles/demo-quad-water-tank.json");
   REQUIRE(f.r.go);
   REQUIRE(f.r.trace.size() > 100);
@@ -105,7 +105,7 @@ TEST_CASE("fly html: a no-go mission says NO-GO at the top and marks the failed 
   for (const auto& p : keys.problems) FAIL_CHECK(p);
 }
 
-TEST_CASE("fly html: names with markup characters are escaped, not interpreted") {
+TEST_CASE("fly html: names with markup characters are escaped — not interpreted") {
   Flown f = fly("profiles/demo-quad-water-tank.json");
   f.lp.mission.name = "tank <b>run</b> & \"return\" 'home'";
   f.lp.mission.phases[0].label = "up & <away>";
@@ -130,7 +130,7 @@ TEST_CASE("fly html: without a trace the page still stands and says why the curv
   CHECK(has(page, "No trace was recorded"));
 }
 
-TEST_CASE("discharge html: well-formed, two plots, numbers equal to the JSON") {
+TEST_CASE("discharge html: well-formed — two plots — numbers equal to the JSON") {
   const battery::Pack pack = io::load_pack_file(source_path("models/packs/demo-4s1p-lipo-5000.json"));
   sim::DischargeSpec spec;
   spec.load = sim::DischargeSpec::Load::power;

@@ -38,7 +38,7 @@ bool contains(const std::vector<std::string>& v, const std::string& s) {
 
 TEST_SUITE("report") {
 
-TEST_CASE("svg ticks: nice steps of 1, 2, 2.5 and 5 that cover the range") {
+TEST_CASE("svg ticks: nice steps of 1 2 2.5 and 5 that cover the range") {
   // Worked by hand: (hi − lo)/target, rounded up to 1, 2, 2.5 or 5 × 10^k.
   auto t = svg::nice_ticks(0.0, 7.3, 6);  // raw 1.22 → 2
   CHECK(t.step == doctest::Approx(2.0));
@@ -69,7 +69,7 @@ TEST_CASE("svg ticks: nice steps of 1, 2, 2.5 and 5 that cover the range") {
   CHECK(t.hi >= 5.0);
 }
 
-TEST_CASE("svg thin: long lines keep their ends, their extremes and their gaps") {
+TEST_CASE("svg thin: long lines keep their ends — their extremes and their gaps") {
   std::vector<double> x, y;
   for (int i = 0; i < 10000; ++i) {
     x.push_back(i);
@@ -96,7 +96,7 @@ TEST_CASE("svg thin: long lines keep their ends, their extremes and their gaps")
   CHECK(sx.size() == 3);
 }
 
-TEST_CASE("svg line plot: well-formed, labelled axes with units, legend, levels, bands, no URL") {
+TEST_CASE("svg line plot: well-formed — labelled axes with units — legend — levels — bands — no URL") {
   svg::LinePlot p;
   p.id = "t1";
   p.title = "voltage & charge <test>";
@@ -163,7 +163,7 @@ TEST_CASE("svg line plot: NaN breaks a line into pieces") {
   CHECK(std::count(d[0].begin(), d[0].end(), 'M') == 2);
 }
 
-TEST_CASE("svg bar plot: negative bars reach left of zero, flagged bars are hatched and say why") {
+TEST_CASE("svg bar plot: negative bars reach left of zero — flagged bars are hatched and say why") {
   svg::BarPlot p;
   p.id = "b1";
   p.value = {"spare time", "s", {}, {}};

@@ -9,7 +9,7 @@ using namespace sortie::report;
 
 TEST_SUITE("report") {
 
-TEST_CASE("text table: the last column wraps at spaces under its own start, and nothing is lost") {
+TEST_CASE("text table: the last column wraps at spaces under its own start — and nothing is lost") {
   TextTable t({"t s", "event", "detail"});
   t.wrap_last(20);
   t.add_row({"1.0", "vortex_ring", "axial inflow is inside the vortex-ring band: the estimate is uncertain"});

@@ -30,7 +30,7 @@ double primitive(double E, double c) {
 
 TEST_SUITE("battery") {
 
-TEST_CASE("Coulomb counting: flat OCV, constant current, time to the SoC floor is Q·ΔSoC/I") {
+TEST_CASE("Coulomb counting: flat OCV — constant current — time to the SoC floor is Q·ΔSoC/I") {
   // dSoC/dt = −I/(3600·Q): t = 3600·Q·(SoC0 − floor)/I. Exact for any resistance.
   const double Q = 5.0, I = 7.5, soc0 = 0.95, floor = 0.2;
   battery::Pack p = test::single(test::analytic_cell(Q, 3.7, 0.0, 0.01, {{Table(0.004), Table(30.0)}}), soc0);
@@ -44,7 +44,7 @@ TEST_CASE("Coulomb counting: flat OCV, constant current, time to the SoC floor i
   CHECK(r.charge_Ah == doctest::Approx(Q * (soc0 - floor)).epsilon(1e-9));
 }
 
-TEST_CASE("constant power, R0 only, linear OCV: time to cutoff matches the closed form") {
+TEST_CASE("constant power — R0 only — linear OCV: time to cutoff matches the closed form") {
   // Derivation. OCV = v0 + k·s, E = OCV (no RC), I = (E − √(E² − 4R0P))/(2R0) (DESIGN.md).
   // dt = −C·ds/I with C = 3600·Q and ds = dE/k. Rationalising,
   //   1/I = 2R0/(E − √(E² − 4R0P)) = (E + √(E² − 4R0P))/(2P),
@@ -148,7 +148,7 @@ TEST_CASE("a linear ramp of current integrates to the trapezoid charge") {
   CHECK(r.charge_Ah == doctest::Approx(5.0 * 1000.0 / 3600.0).epsilon(1e-9));
 }
 
-TEST_CASE("current above the cell limit is a warning event, not an end") {
+TEST_CASE("current above the cell limit is a warning event — not an end") {
   battery::Cell cell = test::analytic_cell(2.0, 3.0, 1.2, 0.01);
   cell.i_cont_max_A = 5.0;
   const auto r = sim::discharge(test::single(cell), cc(8.0, 3.3));

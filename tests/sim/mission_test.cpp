@@ -179,7 +179,7 @@ TEST_CASE("a cruise leg of distance d into a headwind w at airspeed V lasts d/(V
   CHECK(sim::simulate(m).phases[1].duration_s == doctest::Approx(800.0 / 14.0).epsilon(1e-9));
 }
 
-TEST_CASE("energy: the pack's energy out is the sum over the phases, and SoC never rises") {
+TEST_CASE("energy: the pack's energy out is the sum over the phases — and SoC never rises") {
   sim::Mission m = quad_mission();
   sim::SimOptions o;
   o.sample_s = 2.0;
@@ -260,7 +260,7 @@ TEST_CASE("saturation ends the flight and says by how much the thrust falls shor
   CHECK(r.end_detail.find("short by") != std::string::npos);
 }
 
-TEST_CASE("a fixed wing below its stall speed is refused, naming the stall speed") {
+TEST_CASE("a fixed wing below its stall speed is refused — naming the stall speed") {
   sim::Mission m;
   m.airframe = flight::FixedWing{"test wing", 2.0, 0.2, 0.55, 0.028, 9.0, 0.8, 1.2};
   m.drive = ideal_drive(1, 0.254, 0.09, 0.05, 900, 0.02);

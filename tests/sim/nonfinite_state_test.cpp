@@ -40,7 +40,7 @@ TEST_CASE("discharge: a 1000 ohm RC pair under a power ramp ends at the cutoff i
   CHECK(std::isfinite(r.energy_Wh));
 }
 
-TEST_CASE("run_segment: a state that stops being finite is a LimitError, not a NaN result") {
+TEST_CASE("run_segment: a state that stops being finite is a LimitError — not a NaN result") {
   const battery::PackModel model(test::single(test::analytic_cell(5.0, 3.7, 0.0, 0.01)));
   sim::SegmentOptions opts;
   opts.t_end = 10.0;
@@ -55,7 +55,7 @@ TEST_CASE("run_segment: a state that stops being finite is a LimitError, not a N
 
 TEST_SUITE("sim") {
 
-TEST_CASE("discharge: a load starting at -1e300 s is a LimitError, not a boost domain_error") {
+TEST_CASE("discharge: a load starting at -1e300 s is a LimitError — not a boost domain_error") {
   // Steps of a second cannot move a time of -1e300 s: the event bracket had no width and
   // TOMS 748 threw std::domain_error, reported as an internal error
   // (fuzz/regressions/load_csv/time-minus-1e300-s.csv).

@@ -41,7 +41,7 @@ TEST_CASE("step cap: run_segment stops with a LimitError naming what it integrat
                        Contains("test stretch: integration stopped after 50 steps at t = "), LimitError);
 }
 
-TEST_CASE("sample cap: a trace too fine for its length is a LimitError, not an exhausted memory") {
+TEST_CASE("sample cap: a trace too fine for its length is a LimitError — not an exhausted memory") {
   const battery::PackModel model(rc_pack());
   sim::SegmentOptions opts;
   opts.t_end = 100.0;
@@ -52,7 +52,7 @@ TEST_CASE("sample cap: a trace too fine for its length is a LimitError, not an e
                        LimitError);
 }
 
-TEST_CASE("discharge step cap over a load series names the whole cap, not the steps left") {
+TEST_CASE("discharge step cap over a load series names the whole cap — not the steps left") {
   // The cap was handed to each segment as the steps left, so the message read "after 0 steps".
   sim::DischargeSpec spec;
   spec.load = sim::DischargeSpec::Load::series;
@@ -79,7 +79,7 @@ TEST_CASE("discharge sample cap: a fine trace over a long discharge is a LimitEr
                        LimitError);
 }
 
-TEST_CASE("mission step cap counts every stretch of a phase, not each stretch alone") {
+TEST_CASE("mission step cap counts every stretch of a phase — not each stretch alone") {
   // A climb of 1000 m in 1 m stretches: 1000 stretches of at least one step each. The cap was
   // given to each stretch afresh, so 500 steps per phase were never reached.
   sim::Mission m = demo_mission();

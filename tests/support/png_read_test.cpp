@@ -96,7 +96,7 @@ TEST_CASE("png reader: CRC-32 gives the standard check value") {
   CHECK(png::detail::crc32(reinterpret_cast<const std::uint8_t*>(s.data()), s.size()) == 0xCBF43926u);
 }
 
-TEST_CASE("png reader: stored, fixed-Huffman and dynamic-Huffman zlib streams inflate exactly") {
+TEST_CASE("png reader: stored — fixed-Huffman and dynamic-Huffman zlib streams inflate exactly") {
   std::vector<std::uint8_t> out;
   std::string why;
   const std::vector<std::uint8_t> stored = {0x78, 0x01, 0x01, 0x06, 0x00, 0xf9, 0xff, 0x73, 0x74,
