@@ -5,8 +5,10 @@
 // cycler (common practice).
 #include <doctest/doctest.h>
 
+#include <algorithm>
 #include <cmath>
 
+#include "core/text.hpp"
 #include "fit/fit_cell.hpp"
 #include "io/battery_json.hpp"
 #include "sim/replay.hpp"
@@ -90,6 +92,13 @@ TEST_CASE("fit cell: a synthetic pulse test gives back R0 within 2 % and each ta
     // The fit explains the log down to the noise: RMSE of the counted rows near σ = 1 mV
     // (plus 0.29 mV of quantisation, √(1² + 0.29²) ≈ 1.04 mV).
     CHECK(r.fit_rmse_V < 0.0012);
+    // The report says how far the log reaches in current: the protocol's largest pulse.
+    double i_max = 0.0;
+    for (double i : s.current_A) i_max = std::max(i_max, i);
+    const std::string reach = "largest discharge current in the log " + format_fixed(i_max, 2) + " A (" +
+                              format_fixed(i_max / r.cell.capacity_Ah, 2) + " C)";
+    CHECK_MESSAGE(std::any_of(r.notes.begin(), r.notes.end(), [&](const std::string& n) { return n.rfind(reach, 0) == 0; }),
+                  "no note starting '" << reach << "'");
   }
 }
 

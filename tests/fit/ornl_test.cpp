@@ -99,7 +99,8 @@ TEST_CASE("ornl: a model fitted on the 25 °C pulse test runs the measured disch
   // 3C. At 3C a linear two-RC model fitted to 1C pulses cannot follow the cell: its polarisation
   // grows less than in proportion to the current early on and more near empty (charge-transfer
   // and diffusion limits, which the Thevenin model has no term for); measured here 30–38 mV, so
-  // the 3C RMSE is held to 45 mV instead and the gap is reported.
+  // the 3C RMSE is held to 45 mV instead and the gap is reported (README "Fit figures"); over the
+  // first 80 % of each run all three rates are held to 25 mV.
   const Check checks[] = {{"discharge-1C.csv", 4, 30.6, 0.025, 0.03},
                           {"discharge-2C.csv", 5, 61.2, 0.025, 0.03},
                           {"discharge-3C.csv", 5, 91.8, 0.045, 0.05}};
@@ -114,11 +115,21 @@ TEST_CASE("ornl: a model fitted on the 25 °C pulse test runs the measured disch
     const double t_model = sim::discharge(pack, spec).time_to_end_s;
     for (const Section& s : sections) {
       const sim::ReplayResult rep = sim::replay(pack, {s.time_s, s.current_A, {}});
-      double sum2 = 0.0;
-      for (std::size_t k = 1; k < s.time_s.size(); ++k) sum2 += std::pow(rep.v_terminal_V[k] - s.voltage_V[k], 2);
-      const double rmse = std::sqrt(sum2 / static_cast<double>(s.time_s.size() - 1));
       const double t_meas = s.time_s.back();
-      MESSAGE(c.file << ": RMSE " << 1000 * rmse << " mV, time to 3.0 V " << t_model << " s vs " << t_meas
+      double sum2 = 0.0, sum2_early = 0.0;
+      std::size_t early = 0;
+      for (std::size_t k = 1; k < s.time_s.size(); ++k) {
+        const double e2 = std::pow(rep.v_terminal_V[k] - s.voltage_V[k], 2);
+        sum2 += e2;
+        if (s.time_s[k] <= 0.8 * t_meas) sum2_early += e2, ++early;
+      }
+      const double rmse = std::sqrt(sum2 / static_cast<double>(s.time_s.size() - 1));
+      // The first 80 % of the run, before the cell's rate limit near empty shows: within the
+      // issue's 25 mV at every rate (3C: 12–14 mV measured).
+      REQUIRE(early > 10);
+      const double rmse_early = std::sqrt(sum2_early / static_cast<double>(early));
+      CHECK(rmse_early < 0.025);
+      MESSAGE(c.file << ": RMSE " << 1000 * rmse << " mV (first 80 %: " << 1000 * rmse_early << " mV), time to 3.0 V " << t_model << " s vs " << t_meas
                      << " s (" << 100 * (t_model / t_meas - 1) << " %)");
       CHECK(rmse < c.rmse_max_V);
       CHECK(std::fabs(t_model / t_meas - 1.0) < c.time_tol);
