@@ -39,9 +39,6 @@ std::string num(double v) {
 }
 
 std::string attr(const char* name, double v) { return std::string(" ") + name + "=\"" + num(v) + "\""; }
-std::string attr(const char* name, const std::string& v) {
-  return std::string(" ") + name + "=\"" + escape(v) + "\"";
-}
 
 std::string text(double x, double y, const std::string& s, const std::string& extra) {
   return "<text" + attr("x", x) + attr("y", y) + extra + ">" + escape(s) + "</text>\n";
