@@ -21,6 +21,18 @@ struct TemperatureEffect {
   Table capacity_factor{1.0};  ///< multiplies the capacity
 };
 
+/// Lumped thermal model of one cell (DESIGN.md "Physics"): one temperature for the whole cell,
+///   m·c·dT/dt = I²·R0 + Σ v_k²/R_k − hA·(T − T_air)
+/// (the irreversible heat of the equivalent circuit; the reversible, entropic heat is left out).
+struct Thermal {
+  double c_J_per_kgK = 1000.0;  ///< specific heat of the cell, J/(kg·K)
+  double hA_W_per_K = 0.1;      ///< heat transfer coefficient times area, cell to air, W/K
+};
+
+/// Cell temperature above which a run is warned about, °C: 60 °C is the usual upper limit for
+/// discharging lithium cells (common practice; the maker's own figure comes first).
+inline constexpr double kCellHotC = 60.0;
+
 struct Cell {
   std::string name;
   std::string chemistry;
@@ -33,6 +45,7 @@ struct Cell {
   Table r0_ohm{0.01};          ///< series resistance over SoC, Ω
   std::vector<RcPair> rc;      ///< zero, one or two RC pairs
   std::optional<TemperatureEffect> temperature;
+  std::optional<Thermal> thermal;  ///< none: the cell stays at the pack temperature
 
   /// Resistance multiplier at `temperature_C` (1 without a temperature table).
   double r_factor(double temperature_C) const {

@@ -1,5 +1,6 @@
 #pragma once
 /// A pack of S cells in series by P in parallel, with wiring resistance and state of health.
+#include <optional>
 #include <string>
 
 #include "battery/cell.hpp"
@@ -15,7 +16,10 @@ struct Pack {
   double soh_capacity = 1.0;    ///< fraction of rated capacity left
   double soh_resistance = 1.0;  ///< multiplier on R0 from ageing
   double soc0 = 1.0;            ///< initial state of charge, 0..1
-  double temperature_C = 25.0;  ///< cell temperature, °C
+  double temperature_C = 25.0;  ///< cell temperature (at the start, with a thermal model), °C
+  /// Air the cells give their heat to, °C (thermal model only; none: temperature_C). `fly` sets
+  /// it to the air temperature at the field.
+  std::optional<double> air_C;
 
   int cells() const { return series * parallel; }
   double mass_kg() const { return cell.mass_kg * cells(); }

@@ -1,6 +1,7 @@
 #include "battery/scaling.hpp"
 
 #include <cassert>
+#include <cmath>
 
 namespace sortie::battery {
 
@@ -13,6 +14,9 @@ Cell scale_cell(const Cell& c, double capacity_Ah) {
   out.i_cont_max_A = c.i_cont_max_A * k;
   out.r0_ohm = c.r0_ohm.scaled(1.0 / k);
   for (auto& rc : out.rc) rc.r_ohm = rc.r_ohm.scaled(1.0 / k);
+  // Heat grows with k at a given C-rate (I²·R ∝ k²/k) and so does the heat capacity; the cooling
+  // surface of a cell of the same shape grows as k^(2/3).
+  if (out.thermal) out.thermal->hA_W_per_K = c.thermal->hA_W_per_K * std::cbrt(k * k);
   return out;
 }
 

@@ -28,6 +28,19 @@ PackModel::PackModel(const Pack& p)
       tau_s[k] = Table(1.0);
     }
   }
+  if (p.cell.thermal) {
+    thermal = true;
+    wiring_ohm = p.wiring_ohm;
+    t0_C = p.temperature_C;
+    air_C = p.air_C.value_or(p.temperature_C);
+    heat_capacity_J_per_K = p.cell.mass_kg * p.cell.thermal->c_J_per_kgK;
+    hA_W_per_K = p.cell.thermal->hA_W_per_K;
+    if (p.cell.temperature) r_factor_T = p.cell.temperature->r_factor;
+    r_factor_t0 = r_factor_T(t0_C);
+  } else {
+    t0_C = p.temperature_C;
+    air_C = p.temperature_C;
+  }
 }
 
 Terminal solve_terminal(double emf_V, double r0_ohm, double ocv_V, const Demand& d, double t) {
@@ -71,25 +84,37 @@ Terminal Thevenin::terminal(const State& x, double t) const {
   const double ocv = pack.ocv_pack(soc);
   // E = S·OCV − v1 − v2 (DESIGN.md)
   const double emf = ocv - x[kV1] - x[kV2];
-  return solve_terminal(emf, pack.r0_pack_ohm(soc), ocv, demand, t);
+  return solve_terminal(emf, pack.r0_pack(soc, x[kTemp]), ocv, demand, t);
+}
+
+double Thevenin::cell_heat_W(const State& x, double current_A) const {
+  const double soc = x[kSoc];
+  const double s = pack.r_scale(x[kTemp]);
+  double q = current_A * current_A * (pack.r0_pack(soc, x[kTemp]) - pack.wiring_ohm);
+  for (std::size_t k = 0; k < pack.n_rc; ++k) q += x[kV1 + k] * x[kV1 + k] / (pack.r_pack_ohm[k](soc) * s);
+  return q / (static_cast<double>(pack.series) * pack.parallel);
 }
 
 void Thevenin::operator()(const State& x, State& dxdt, double t) const {
   const Terminal term = terminal(x, t);
   const double i = term.current_A;
   const double soc = x[kSoc];
+  const double rs = pack.r_scale(x[kTemp]);
   dxdt[kSoc] = -i / pack.capacity_C;  // dSoC/dt = −I / (3600·Q_Ah·P·soh)
   for (std::size_t k = 0; k < 2; ++k) {
     const std::size_t idx = kV1 + k;
     if (k < pack.n_rc) {
       const double tau = pack.tau_s[k](soc);
-      dxdt[idx] = (-x[idx] + i * pack.r_pack_ohm[k](soc)) / tau;  // dv/dt = −v/τ + I·R/τ
+      dxdt[idx] = (-x[idx] + i * pack.r_pack_ohm[k](soc) * rs) / tau;  // dv/dt = −v/τ + I·R/τ
     } else {
       dxdt[idx] = 0.0;
     }
   }
   dxdt[kCharge] = i;
   dxdt[kEnergy] = term.power_W;
+  dxdt[kTemp] = pack.thermal ? (cell_heat_W(x, i) - pack.hA_W_per_K * (x[kTemp] - pack.air_C)) /
+                                   pack.heat_capacity_J_per_K
+                             : 0.0;
 }
 
 }  // namespace sortie::battery

@@ -10,13 +10,15 @@
 
 namespace sortie::battery {
 
-/// State: SoC, the two RC voltages of the pack, and the integrals of charge and energy out.
-using State = std::array<double, 5>;
+/// State: SoC, the two RC voltages of the pack, the integrals of charge and energy out, and the
+/// cell temperature.
+using State = std::array<double, 6>;
 inline constexpr std::size_t kSoc = 0;     ///< state of charge, 0..1
 inline constexpr std::size_t kV1 = 1;      ///< first RC pair voltage (pack), V
 inline constexpr std::size_t kV2 = 2;      ///< second RC pair voltage (pack), V
 inline constexpr std::size_t kCharge = 3;  ///< charge delivered since the start, C
 inline constexpr std::size_t kEnergy = 4;  ///< energy delivered at the terminals, J
+inline constexpr std::size_t kTemp = 5;    ///< cell temperature, °C (constant without a thermal model)
 
 /// What the load asks of the pack, over one segment starting at t0:
 /// current:  I(t) = a + a_rate·(t − t0)
@@ -50,10 +52,32 @@ struct PackModel {
   std::size_t n_rc;       ///< 0, 1 or 2
   std::array<Table, 2> r_pack_ohm;  ///< S/P·R_k,cell·r_factor, over SoC
   std::array<Table, 2> tau_s;
+  // Thermal model (battery::Thermal), per cell. The tables above hold the resistances at the
+  // starting temperature; at temperature T they are multiplied by r_factor(T)/r_factor(T0)
+  // (the wiring excepted). The capacity stays that of the starting temperature.
+  bool thermal = false;
+  double wiring_ohm = 0.0;
+  double t0_C = 25.0;             ///< starting cell temperature, °C
+  double air_C = 25.0;            ///< air temperature, °C
+  double heat_capacity_J_per_K = 0.0;  ///< m·c of one cell
+  double hA_W_per_K = 0.0;        ///< of one cell
+  Table r_factor_T{1.0};          ///< the cell's resistance factor over °C
+  double r_factor_t0 = 1.0;
 
   double ocv_pack(double soc) const { return series * ocv_cell_V(soc); }
-  /// Initial state: SoC given, RC pairs relaxed, nothing delivered.
-  State initial_state(double soc0) const { return {soc0, 0.0, 0.0, 0.0, 0.0}; }
+  /// Resistance multiplier at cell temperature T relative to the start (1 without a thermal
+  /// model).
+  double r_scale(double temperature_C) const {
+    return thermal ? r_factor_T(temperature_C) / r_factor_t0 : 1.0;
+  }
+  /// Pack series resistance at SoC and cell temperature.
+  double r0_pack(double soc, double temperature_C) const {
+    if (!thermal) return r0_pack_ohm(soc);
+    return (r0_pack_ohm(soc) - wiring_ohm) * r_scale(temperature_C) + wiring_ohm;
+  }
+  /// Initial state: SoC given, RC pairs relaxed, nothing delivered, cells at the start
+  /// temperature.
+  State initial_state(double soc0) const { return {soc0, 0.0, 0.0, 0.0, 0.0, t0_C}; }
 };
 
 /// Terminal quantities at one instant.
@@ -75,12 +99,16 @@ struct Terminal {
 Terminal solve_terminal(double emf_V, double r0_ohm, double ocv_V, const Demand& d, double t);
 
 /// Odeint right-hand side (STYLE.md rule 2):
-///   dSoC/dt = −I/C_pack,   dv_k/dt = −v_k/τ_k + I·R_k/τ_k,   dq/dt = I,   dE/dt = V·I
+///   dSoC/dt = −I/C_pack,   dv_k/dt = −v_k/τ_k + I·R_k/τ_k,   dq/dt = I,   dE/dt = V·I,
+///   per cell m·c·dT/dt = (I²·R0_cells + Σ v_k²/R_k)/(S·P) − hA·(T − T_air)  (thermal model;
+///   R0_cells is the pack's series resistance without the wiring, whose heat is not in a cell)
 struct Thevenin {
   const PackModel& pack;
   Demand demand;
 
   Terminal terminal(const State& x, double t) const;
+  /// Heat released in one cell, W (I²·R0 + Σ v_k²/R_k over the pack, shared by S·P cells).
+  double cell_heat_W(const State& x, double current_A) const;
   void operator()(const State& x, State& dxdt, double t) const;
 };
 

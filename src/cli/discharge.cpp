@@ -22,7 +22,7 @@ struct DischargeOptions {
   std::optional<double> power_W, current_A;
   std::string load_file;
   std::string interpolation;
-  std::optional<double> cutoff_cell_V, soc0, temperature_C;
+  std::optional<double> cutoff_cell_V, soc0, temperature_C, air_C;
   double soc_floor = 0.0;
   double sample_s = 1.0;
   std::string json_file, trace_file;
@@ -35,6 +35,7 @@ int run_discharge(const DischargeOptions& o) {
   battery::Pack pack = io::load_pack_file(o.pack_file);
   if (o.soc0) pack.soc0 = *o.soc0;
   if (o.temperature_C) pack.temperature_C = *o.temperature_C;
+  if (o.air_C) pack.air_C = *o.air_C;
   sim::DischargeSpec spec;
   spec.cutoff_cell_V = o.cutoff_cell_V.value_or(pack.cell.v_cutoff_V);
   if (spec.cutoff_cell_V >= pack.cell.v_max_V)
@@ -92,7 +93,10 @@ void add_discharge_command(CLI::App& app, int& exit_code) {
   c->add_option("--soc0", o->soc0, "initial state of charge, 0..1 (default: the pack's)")->check(CLI::Range(0.0, 1.0));
   c->add_option("--soc-floor", o->soc_floor, "state of charge that ends the run, 0..1 (default 0)")
       ->check(CLI::Range(0.0, 1.0));
-  c->add_option("--temperature-C", o->temperature_C, "cell temperature, °C (default: the pack's)")
+  c->add_option("--temperature-C", o->temperature_C, "cell temperature (at the start, with a thermal model), °C (default: the pack's)")
+      ->check(CLI::Range(-60.0, 100.0));
+  c->add_option("--air-C", o->air_C,
+                "air the cells give their heat to, °C, for cells with a thermal model (default: the pack's air_temperature_C, else its temperature)")
       ->check(CLI::Range(-60.0, 100.0));
   c->add_option("--json", o->json_file, "write the result as JSON to FILE, or - for standard output");
   c->add_option("--trace", o->trace_file, "write a CSV trace to FILE");

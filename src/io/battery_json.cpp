@@ -50,6 +50,16 @@ battery::Cell read_cell(ObjectReader& r) {
     t.finish();
     c.temperature = eff;
   }
+  if (r.has("thermal")) {
+    ObjectReader t = r.object("thermal");
+    battery::Thermal th;
+    // Li-ion cells hold about 0.8–1.3 kJ/(kg·K) (common practice); the range only refuses typing
+    // slips such as a value in kJ.
+    th.c_J_per_kgK = t.number("c_J_per_kgK", between(100.0, 5000.0, "J/(kg·K)"));
+    th.hA_W_per_K = t.number("hA_W_per_K", between(0.0, 1000.0, "W/K"));
+    t.finish();
+    c.thermal = th;
+  }
   r.finish();
   return c;
 }
@@ -71,6 +81,7 @@ battery::Pack read_pack(ObjectReader& r) {
     s.finish();
   }
   p.temperature_C = r.number_or("temperature_C", 25.0, between(-60.0, 100.0, "C"));
+  p.air_C = r.optional_number("air_temperature_C", between(-60.0, 100.0, "C"));
   const bool has_soc = r.has("soc0");
   const bool has_v = r.has("v_rest_cell0_V");
   if (has_soc && has_v)

@@ -83,6 +83,7 @@ nlohmann::ordered_json cell_to_json(const battery::Cell& c, const std::string& n
     t["capacity_factor"] = q;
     j["temperature"] = t;
   }
+  if (c.thermal) j["thermal"] = {{"c_J_per_kgK", c.thermal->c_J_per_kgK}, {"hA_W_per_K", c.thermal->hA_W_per_K}};
   return j;
 }
 

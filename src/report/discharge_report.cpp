@@ -52,10 +52,14 @@ std::string discharge_text(const battery::Pack& pack, const std::string& load_la
   kv.add("maximum current", fixed(r.i_max_A, 2) + " A  (" +
                                 fixed(r.i_max_A / (pack.cell.capacity_Ah * pack.parallel), 2) + " C)");
   kv.add("state of charge at end", fixed(r.soc_end * 100.0, 1) + " %");
+  if (r.thermal)
+    kv.add("cell temperature", fixed(pack.temperature_C, 1) + " °C at the start, " + fixed(r.temperature_end_C, 1) +
+                                   " °C at the end, highest " + fixed(r.temperature_max_C, 1) + " °C (air " +
+                                   fixed(r.air_C, 1) + " °C)");
   out += kv.render();
   bool warned = false;
   for (const auto& e : r.events) {
-    if (e.kind != "over_current") continue;
+    if (e.kind != "over_current" && e.kind != "cell_hot") continue;
     if (!warned) out += "\nwarnings:\n";
     warned = true;
     out += "  at " + fixed(e.t_s, 1) + " s: " + e.detail + "\n";
@@ -84,6 +88,9 @@ nlohmann::json discharge_json(const battery::Pack& pack, const std::string& load
   j["v_min_V"] = r.v_min_V;
   j["i_max_A"] = r.i_max_A;
   j["soc_end"] = r.soc_end;
+  if (r.thermal)
+    j["cell_temperature_C"] = {{"start", pack.temperature_C}, {"end", r.temperature_end_C}, {"max", r.temperature_max_C},
+                               {"air", r.air_C}};
   nlohmann::json ev = nlohmann::json::array();
   for (const auto& e : r.events) ev.push_back({{"t_s", e.t_s}, {"kind", e.kind}, {"detail", e.detail}});
   j["events"] = ev;
@@ -91,12 +98,18 @@ nlohmann::json discharge_json(const battery::Pack& pack, const std::string& load
 }
 
 std::string discharge_trace_csv(const sim::DischargeResult& r) {
-  std::string out = "time_s,current_A,v_terminal_V,v_ocv_V,soc,power_W\n";
+  std::string out = std::string("time_s,current_A,v_terminal_V,v_ocv_V,soc,power_W") +
+                    (r.thermal ? ",cell_temperature_C" : "") + "\n";
   char buf[256];
   for (const auto& s : r.trace) {
-    std::snprintf(buf, sizeof buf, "%.4f,%.6g,%.6f,%.6f,%.7f,%.6g\n", s.t, s.term.current_A,
+    std::snprintf(buf, sizeof buf, "%.4f,%.6g,%.6f,%.6f,%.7f,%.6g", s.t, s.term.current_A,
                   s.term.v_terminal_V, s.term.v_ocv_V, s.x[battery::kSoc], s.term.power_W);
     out += buf;
+    if (r.thermal) {
+      std::snprintf(buf, sizeof buf, ",%.3f", s.x[battery::kTemp]);
+      out += buf;
+    }
+    out += "\n";
   }
   return out;
 }

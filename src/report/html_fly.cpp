@@ -271,6 +271,10 @@ std::string fly_html(const sim::Mission& m, const sim::MissionResult& r, const s
   cards.push_back({"lowest cell voltage", keyed("v_min_cell_V", fixed(r.v_min_cell_V, 3) + " V"),
                    "under load; " + fixed(r.landing.v_rest_cell_V, 3) + " V resting at landing"});
   cards.push_back({"highest current", keyed("i_max_A", fixed(r.i_max_A, 1) + " A"), fixed(r.c_rate_max, 2) + " C"});
+  if (r.thermal)
+    cards.push_back({"cell temperature", keyed("cell_temperature_C.max", fixed(r.temperature_max_C, 1) + " °C"),
+                     "highest; " + fixed(r.temperature_start_C, 1) + " °C at take-off, air " + fixed(r.air_C, 1) + " °C",
+                     r.temperature_max_C > battery::kCellHotC});
   page.add(html::cards(cards));
 
   page.section("Reserve rules at landing", rules_table(r));

@@ -113,6 +113,10 @@ std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::S
   land.add("resting cell voltage at landing", fixed(r.landing.v_rest_cell_V, 3) + " V");
   land.add("lowest loaded cell voltage", fixed(r.v_min_cell_V, 3) + " V");
   land.add("highest current", fixed(r.i_max_A, 1) + " A (" + fixed(r.c_rate_max, 2) + " C)");
+  if (r.thermal)
+    land.add("cell temperature", fixed(r.temperature_start_C, 1) + " °C at take-off, " + fixed(r.landing.temperature_C, 1) +
+                                     " °C at landing, highest " + fixed(r.temperature_max_C, 1) + " °C (air " +
+                                     fixed(r.air_C, 1) + " °C)");
   land.add("mean duty, mean ESC efficiency", fixed(r.duty_mean * 100, 1) + " %, " + fixed(r.eta_esc_mean * 100, 1) + " %");
   if (m.reserve.hover_s) land.add("time on station left at landing", fixed(r.reserve_time_s, 0) + " s");
   if (s.phase)
@@ -173,6 +177,9 @@ nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim
   j["eta_mean"] = r.eta_mean;
   j["landing"] = {{"soc", r.landing.soc}, {"energy_Wh", r.landing.energy_Wh},
                   {"v_rest_cell_V", r.landing.v_rest_cell_V}, {"reserve_time_s", r.reserve_time_s}};
+  if (r.thermal)
+    j["cell_temperature_C"] = {{"start", r.temperature_start_C}, {"landing", r.landing.temperature_C},
+                               {"max", r.temperature_max_C}, {"air", r.air_C}};
   json phases = json::array();
   for (std::size_t i = 0; i < r.phases.size(); ++i) {
     const auto& p = r.phases[i];
@@ -198,14 +205,20 @@ nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim
 }
 
 std::string fly_trace_csv(const MissionResult& r) {
-  std::string out = "time_s,current_A,v_terminal_V,v_ocv_V,soc,power_W,phase,duty,thrust_N\n";
+  std::string out = std::string("time_s,current_A,v_terminal_V,v_ocv_V,soc,power_W,phase,duty,thrust_N") +
+                    (r.thermal ? ",cell_temperature_C" : "") + "\n";
   char buf[320];
   for (const auto& tp : r.trace) {
     const auto& s = tp.s;
-    std::snprintf(buf, sizeof buf, "%.4f,%.6g,%.6f,%.6f,%.7f,%.6g,%d,%.5f,%.5g\n", s.t, s.term.current_A,
+    std::snprintf(buf, sizeof buf, "%.4f,%.6g,%.6f,%.6f,%.7f,%.6g,%d,%.5f,%.5g", s.t, s.term.current_A,
                   s.term.v_terminal_V, s.term.v_ocv_V, s.x[battery::kSoc], s.term.power_W, tp.phase, tp.duty,
                   tp.thrust_N);
     out += buf;
+    if (r.thermal) {
+      std::snprintf(buf, sizeof buf, ",%.3f", s.x[battery::kTemp]);
+      out += buf;
+    }
+    out += "\n";
   }
   return out;
 }

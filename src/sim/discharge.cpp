@@ -41,12 +41,13 @@ DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec) 
   const battery::PackModel model(pack);
   const double S = pack.series;
   const double i_limit = pack.cell.i_cont_max_A * pack.parallel;
-  enum : std::size_t { kCutoff, kFloor, kCollapse, kOverCurrent };
+  enum : std::size_t { kCutoff, kFloor, kCollapse, kOverCurrent, kCellHot };
   const std::vector<EventSpec> events = {
       {"cutoff_voltage", [&](const Sample& s) { return s.term.v_terminal_V / S - spec.cutoff_cell_V; }, true},
       {"soc_floor", [&](const Sample& s) { return s.x[battery::kSoc] - spec.soc_floor; }, true},
       {"power_collapse", [](const Sample& s) { return s.term.discriminant; }, true},
       {"over_current", [=](const Sample& s) { return i_limit - s.term.current_A; }, false},
+      {"cell_hot", [](const Sample& s) { return battery::kCellHotC - s.x[battery::kTemp]; }, false},
   };
 
   // Segments: one for a constant load, one per stretch of a series.
@@ -73,9 +74,13 @@ DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec) 
   opts.max_steps = spec.max_steps;  // for the whole discharge, over every segment
   opts.max_samples = spec.max_samples;
   opts.context = "discharge";
+  out.thermal = model.thermal;
+  out.air_C = model.air_C;
+  out.temperature_max_C = model.t0_C;
   auto track = [&](const Sample& s) {
     out.v_min_V = std::min(out.v_min_V, s.term.v_terminal_V);
     out.i_max_A = std::max(out.i_max_A, s.term.current_A);
+    out.temperature_max_C = std::max(out.temperature_max_C, s.x[battery::kTemp]);
   };
   const StepHook hook = [&](double ta, double tb, const std::function<Sample(double)>& at) {
     track(at(ta));
@@ -85,6 +90,7 @@ DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec) 
 
   Sample end;
   std::optional<std::size_t> stopped;
+  bool warned_hot = false;
   for (const auto& [demand, t_end] : segments) {
     opts.t_end = t_end;
     SegmentResult seg = run_segment(model, demand, t, x, events, opts, hook);
@@ -93,6 +99,14 @@ DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec) 
     opts.next_sample_t = seg.next_sample_t;
     out.trace.insert(out.trace.end(), seg.samples.begin(), seg.samples.end());
     for (const auto& w : seg.warnings) {
+      if (w.event == kCellHot) {
+        if (!warned_hot)
+          out.events.push_back({w.at.t - t_start, "cell_hot",
+                                "cell temperature reached " + format_fixed(battery::kCellHotC, 0) +
+                                    " °C, the usual discharge limit of lithium cells (check the maker's)"});
+        warned_hot = true;
+        continue;
+      }
       const double per_cell = w.at.term.current_A / pack.parallel;
       out.events.push_back({w.at.t - t_start, "over_current",
                             "cell current " + format_fixed(per_cell, 1) + " A above the continuous limit " +
@@ -116,6 +130,7 @@ DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec) 
   out.charge_Ah = end.x[battery::kCharge] / 3600.0;
   out.energy_Wh = end.x[battery::kEnergy] / 3600.0;
   out.soc_end = end.x[battery::kSoc];
+  out.temperature_end_C = end.x[battery::kTemp];
   if (!std::isfinite(out.v_min_V)) out.v_min_V = end.term.v_terminal_V;
   std::string detail;
   if (!stopped) {

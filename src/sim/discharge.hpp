@@ -47,6 +47,9 @@ struct DischargeResult {
   double v_min_V = 0.0;      ///< lowest loaded pack voltage
   double soc_end = 0.0;
   double i_max_A = 0.0;
+  bool thermal = false;      ///< the cell has a thermal model
+  double temperature_end_C = 0.0, temperature_max_C = 0.0;  ///< cell temperature, °C
+  double air_C = 0.0;        ///< air the cells give their heat to, °C
   std::vector<Event> events;
   std::vector<Sample> trace;  ///< every sample_s, plus the exact end point
 };

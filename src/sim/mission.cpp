@@ -65,7 +65,7 @@ double reserve_loiter_speed(const flight::FixedWing& w, double mass, double rho)
 }
 
 /// Event indices of one segment's event list.
-enum : std::size_t { kCutoff, kSaturation, kCollapse, kEmpty, kResVLoad, kResSoc, kOverCurrent };
+enum : std::size_t { kCutoff, kSaturation, kCollapse, kEmpty, kResVLoad, kResSoc, kOverCurrent, kCellHot };
 
 struct SegmentSetup {
   battery::Demand demand;
@@ -93,6 +93,8 @@ std::vector<EventSpec> make_events(const Mission& m, const SegmentSetup& s, doub
       {"reserve_v_load", [=](const Sample& x) { return v_res < 0 ? 1.0 : x.term.v_terminal_V / S - v_res; }, false},
       {"reserve_soc", [=](const Sample& x) { return soc_res < 0 ? 1.0 : x.x[battery::kSoc] - soc_res; }, false},
       {"over_current", [=](const Sample& x) { return i_limit - x.term.current_A; }, false},
+      // With a thermal model the cells warm; without one their temperature stays and never crosses.
+      {"cell_hot", [](const Sample& x) { return battery::kCellHotC - x.x[battery::kTemp]; }, false},
   };
 }
 
@@ -201,7 +203,15 @@ std::optional<double> planned_duration_s(const Mission& m, std::size_t i) {
 
 MissionResult simulate(const Mission& m, const SimOptions& opts) {
   MissionResult out;
-  const battery::PackModel pm(m.pack);
+  // The cells give their heat to the air at the field (a pack file may name its own air).
+  battery::Pack pack = m.pack;
+  if (!pack.air_C)
+    if (const auto air = m.environment.atmosphere.at(0.0)) pack.air_C = air->temperature_K - 273.15;
+  const battery::PackModel pm(pack);
+  out.thermal = pm.thermal;
+  out.temperature_start_C = pm.t0_C;
+  out.temperature_max_C = pm.t0_C;
+  out.air_C = pm.air_C;
   const double S = m.pack.series;
   const double rated_Ah = m.pack.cell.capacity_Ah * m.pack.parallel;
   const double cutoff = m.pack.cell.v_cutoff_V;
@@ -216,7 +226,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
   double t = 0.0;
   double next_sample = 0.0;
   bool stopped = false;
-  bool reserve_v_seen = false, reserve_soc_seen = false;
+  bool reserve_v_seen = false, reserve_soc_seen = false, warned_hot = false;
   double duty_integral = 0.0;
   double planned_total = 0.0;
   out.v_min_cell_V = kInf;
@@ -340,6 +350,11 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
           out.events.push_back({w.at.t, "over_current", pi,
                                 "cell current " + format_fixed(w.at.term.current_A / m.pack.parallel, 1) +
                                     " A above the continuous limit " + format_fixed(m.pack.cell.i_cont_max_A, 1) + " A"});
+        } else if (w.event == kCellHot && !warned_hot) {
+          warned_hot = true;
+          out.events.push_back({w.at.t, "cell_hot", pi,
+                                "cell temperature reached " + format_fixed(battery::kCellHotC, 0) +
+                                    " °C, the usual discharge limit of lithium cells (check the maker's)"});
         }
       }
       (void)cell_i_limit;
@@ -348,6 +363,8 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
       last_h = st.duration_s > 0 ? st.h_start_m + (st.h_end_m - st.h_start_m) * dt / st.duration_s : st.h_end_m;
       t = seg.end.t;
       x = seg.end.x;
+      out.temperature_max_C = std::max(out.temperature_max_C, x[battery::kTemp]);
+      for (const Sample& sm : seg.samples) out.temperature_max_C = std::max(out.temperature_max_C, sm.x[battery::kTemp]);
       if (seg.stopped) {
         stopped = true;
         out.end_phase = static_cast<int>(i);
@@ -432,6 +449,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
   out.landing.soc = x[battery::kSoc];
   out.landing.energy_Wh = stored_energy_Wh(m.pack, std::max(0.0, x[battery::kSoc]));
   out.landing.v_rest_cell_V = pm.ocv_cell_V(x[battery::kSoc]);
+  out.landing.temperature_C = x[battery::kTemp];
   out.landing.v_load_cell_V = out.trace.empty() ? out.v_min_cell_V : out.trace.back().s.term.v_terminal_V / S;
   (void)rest;
 

@@ -95,6 +95,7 @@ struct Landing {
   double energy_Wh = 0.0;     ///< open-circuit energy left (S·Q·∫₀^SoC OCV), Wh
   double v_rest_cell_V = 0.0; ///< relaxed: OCV(SoC) per cell
   double v_load_cell_V = 0.0; ///< loaded at touchdown
+  double temperature_C = 0.0; ///< cell temperature at touchdown (the start's without a thermal model)
 };
 
 struct MissionResult {
@@ -113,6 +114,8 @@ struct MissionResult {
   double duty_mean = 0.0;       ///< time mean over the flight
   double eta_esc_mean = 0.0;    ///< energy-weighted over the flight
   double eta_mean = 0.0;
+  bool thermal = false;         ///< the cell has a thermal model
+  double temperature_start_C = 0.0, temperature_max_C = 0.0, air_C = 0.0;  ///< cell, cell, air
   Landing landing;
   double reserve_time_s = 0.0;  ///< time on station left at landing (hover or loiter), s
   /// Fixed wing only: stall, minimum-power and maximum-L/D speeds at the all-up mass in the

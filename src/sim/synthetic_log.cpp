@@ -99,6 +99,7 @@ class Runner {
   static battery::Pack make_pack(const battery::Cell& cell, double soc0) {
     battery::Pack p;
     p.cell = cell;
+    p.cell.thermal.reset();  // a test held at 25 °C: the log's model is isothermal
     p.soc0 = soc0;
     p.temperature_C = 25.0;
     return p;

@@ -56,7 +56,7 @@ TEST_CASE("discharge: the demo pack runs and writes JSON and trace") {
   for (const char* k : {"time_to_end_s", "charge_Ah", "energy_Wh", "v_min_V", "soc_end"}) CHECK(j[k].is_number());
   CHECK(j["events"].is_array());
   const std::string csv = read_file(tr);
-  CHECK(csv.rfind("time_s,current_A,v_terminal_V,v_ocv_V,soc,power_W\n", 0) == 0);
+  CHECK(csv.rfind("time_s,current_A,v_terminal_V,v_ocv_V,soc,power_W,cell_temperature_C\n", 0) == 0);
   // Energy = ∫P dt = 300 W · t at constant power.
   CHECK(j["energy_Wh"].get<double>() == doctest::Approx(300.0 * j["time_to_end_s"].get<double>() / 3600).epsilon(1e-6));
 }
@@ -184,6 +184,45 @@ TEST_CASE("bad input: load CSV with a missing column — non-increasing time —
   expect_refused(pack, {"notime.csv", "line 4", "time not increasing", "got 10 s"}, {"--load", b});
   const std::string c = write_work_file("text.csv", "time_s,current_A\n0,1\n10,abc\n");
   expect_refused(pack, {"text.csv", "line 3", "column 'current_A'", "\"abc\""}, {"--load", c});
+}
+
+}  // TEST_SUITE
+
+TEST_SUITE("cli") {
+
+TEST_CASE("discharge: a cell with a thermal block reports its temperature in text JSON and trace") {
+  json cell = base_cell();
+  cell["thermal"] = {{"c_J_per_kgK", 1000}, {"hA_W_per_K", 0.05}};
+  const std::string pack = write_pack("thermal", cell);
+  const std::string js = work_path("thermal.json"), tr = work_path("thermal.csv");
+  const auto r = run_sortie({"discharge", pack, "--current", "50", "--temperature-C", "0", "--air-C", "-5", "--json", js,
+                             "--trace", tr, "--sample-s", "10"});
+  REQUIRE(r.exit_code == 0);
+  CHECK(r.out.find("cell temperature") != std::string::npos);
+  CHECK(r.out.find("(air -5.0 °C)") != std::string::npos);
+  const json j = json::parse(read_file(js));
+  REQUIRE(j.contains("cell_temperature_C"));
+  CHECK(j["cell_temperature_C"]["start"] == 0.0);
+  CHECK(j["cell_temperature_C"]["air"] == -5.0);
+  CHECK(j["cell_temperature_C"]["max"].get<double>() > 5.0);  // 10C on a cold cell
+  CHECK(j["cell_temperature_C"]["end"].get<double>() <= j["cell_temperature_C"]["max"].get<double>());
+  const std::string csv = read_file(tr);
+  CHECK(csv.rfind("time_s,current_A,v_terminal_V,v_ocv_V,soc,power_W,cell_temperature_C\n", 0) == 0);
+  // Without the block: no temperature in the result.
+  cell.erase("thermal");
+  const auto plain = run_sortie({"discharge", write_pack("isothermal", cell), "--current", "50", "--format", "json"});
+  REQUIRE(plain.exit_code == 0);
+  CHECK_FALSE(json::parse(plain.out).contains("cell_temperature_C"));
+}
+
+TEST_CASE("bad input: thermal block values out of range or unknown keys") {
+  json cell = base_cell();
+  cell["thermal"] = {{"c_J_per_kgK", 1.0}, {"hA_W_per_K", 0.05}};
+  expect_refused(write_pack("thermal-c", cell), {"thermal-c-cell.json", "/thermal/c_J_per_kgK", "1", "100"});
+  cell["thermal"] = {{"c_J_per_kgK", 1000}, {"hA_W_per_K", -1}};
+  expect_refused(write_pack("thermal-h", cell), {"/thermal/hA_W_per_K", "-1"});
+  cell["thermal"] = {{"c_J_per_kgK", 1000}, {"hA_W_per_k", 0.1}};
+  expect_refused(write_pack("thermal-key", cell), {"/thermal", "hA_W_per_k", "hA_W_per_K"});
 }
 
 }  // TEST_SUITE

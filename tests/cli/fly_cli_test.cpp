@@ -65,6 +65,34 @@ TEST_CASE("fly: the quadcopter demo is a go — the hexacopter demo a no-go nami
   CHECK(j["spare_s"].get<double>() < 0);
 }
 
+TEST_CASE("fly: the cold hexacopter pack warms in flight and gives its heat to the air at the field") {
+  // The profile: pack at 0 °C, field air 0 °C; the demo LiPo cell has a thermal block.
+  const auto r = run_sortie({"fly", source_path("profiles/demo-hexa-highland-sensor.json"), "--json", "-"});
+  const json j = json::parse(r.out);
+  REQUIRE(j.contains("cell_temperature_C"));
+  const json& t = j["cell_temperature_C"];
+  CHECK(t["start"] == 0.0);
+  CHECK(t["air"].get<double>() == doctest::Approx(0.0).epsilon(1e-9));
+  CHECK(t["landing"].get<double>() > 5.0);   // about 4C for 11 minutes
+  CHECK(t["landing"].get<double>() < 60.0);  // no cell_hot warning
+  CHECK(t["max"].get<double>() >= t["landing"].get<double>());
+  for (const auto& e : j["events"]) CHECK(e["kind"] != "cell_hot");
+  // The same pack kept at 0 °C (no thermal block) sags more and draws more charge for the same
+  // 420 s hover (its resistance stays high); here it reaches the cutoff before landing.
+  json cell = json::parse(read_file(source_path("models/cells/demo-lipo-5000.json")));
+  cell.erase("thermal");
+  write_work_file("cold-lipo.json", cell.dump());
+  json pack = {{"cell", "cold-lipo.json"}, {"series", 4}, {"parallel", 2}, {"wiring_ohm", 0.004}, {"temperature_C", 0}};
+  const std::string pk = write_work_file("cold-pack.json", pack.dump());
+  const auto iso = run_sortie({"fly", source_path("profiles/demo-hexa-highland-sensor.json"), "--pack", pk, "--json", "-"});
+  const json ji = json::parse(iso.out);
+  CHECK_FALSE(ji.contains("cell_temperature_C"));
+  CHECK(ji["v_min_cell_V"].get<double>() < j["v_min_cell_V"].get<double>());
+  CHECK(ji["phases"][1]["charge_Ah"].get<double>() > j["phases"][1]["charge_Ah"].get<double>());
+  CHECK(j["completed"] == true);
+  CHECK(ji["completed"] == false);
+}
+
 TEST_CASE("fly: a lighter sensor turns the hexacopter no-go into a go") {
   json af = json::parse(read_file(source_path("models/airframes/demo-hexa-10in-lifter.json")));
   af["payload_kg"] = 0.3;
@@ -83,7 +111,7 @@ TEST_CASE("fly: --pack replaces the profile's pack — --trace has the mission c
   REQUIRE((r.exit_code == 0 || r.exit_code == 3));
   CHECK(json::parse(r.out)["pack"]["layout"] == "4S1P");
   const std::string csv = read_file(tr);
-  CHECK(csv.rfind("time_s,current_A,v_terminal_V,v_ocv_V,soc,power_W,phase,duty,thrust_N\n", 0) == 0);
+  CHECK(csv.rfind("time_s,current_A,v_terminal_V,v_ocv_V,soc,power_W,phase,duty,thrust_N,cell_temperature_C\n", 0) == 0);
 }
 
 TEST_CASE("fly: bad profiles are refused with a pointer and no output") {

@@ -239,7 +239,7 @@ TEST_CASE("--format csv: fly phases — compare rows — drive points and the di
   CHECK(drv.size() == 1 + 38);
   CHECK(drv[0].rfind("cells,cell_V,bus_V,throttle_pct,duty,", 0) == 0);
   auto dis = csv({"discharge", source_path(kPack), "--current", "10", "--sample-s", "10"});
-  CHECK(dis[0] == "time_s,current_A,v_terminal_V,v_ocv_V,soc,power_W");
+  CHECK(dis[0] == "time_s,current_A,v_terminal_V,v_ocv_V,soc,power_W,cell_temperature_C");  // the demo LiPo has a thermal block
   CHECK(dis.size() > 20);
 }
 
