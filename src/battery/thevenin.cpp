@@ -96,23 +96,31 @@ double Thevenin::cell_heat_W(const State& x, double current_A) const {
 }
 
 void Thevenin::operator()(const State& x, State& dxdt, double t) const {
-  const Terminal term = terminal(x, t);
-  const double i = term.current_A;
+  // Each table once per call: the RHS is the hot path (STYLE.md).
   const double soc = x[kSoc];
   const double rs = pack.r_scale(x[kTemp]);
+  const double r0_table = pack.r0_pack_ohm(soc);
+  const double r0 = pack.thermal ? (r0_table - pack.wiring_ohm) * rs + pack.wiring_ohm : r0_table;
+  const double ocv = pack.ocv_pack(soc);
+  const Terminal term = solve_terminal(ocv - x[kV1] - x[kV2], r0, ocv, demand, t);  // E = S·OCV − v1 − v2
+  const double i = term.current_A;
   dxdt[kSoc] = -i / pack.capacity_C;  // dSoC/dt = −I / (3600·Q_Ah·P·soh)
+  double heat = i * i * (r0 - pack.wiring_ohm);  // pack, W
   for (std::size_t k = 0; k < 2; ++k) {
     const std::size_t idx = kV1 + k;
     if (k < pack.n_rc) {
       const double tau = pack.tau_s[k](soc);
-      dxdt[idx] = (-x[idx] + i * pack.r_pack_ohm[k](soc) * rs) / tau;  // dv/dt = −v/τ + I·R/τ
+      const double r = pack.r_pack_ohm[k](soc) * rs;
+      dxdt[idx] = (-x[idx] + i * r) / tau;  // dv/dt = −v/τ + I·R/τ
+      heat += x[idx] * x[idx] / r;
     } else {
       dxdt[idx] = 0.0;
     }
   }
   dxdt[kCharge] = i;
   dxdt[kEnergy] = term.power_W;
-  dxdt[kTemp] = pack.thermal ? (cell_heat_W(x, i) - pack.hA_W_per_K * (x[kTemp] - pack.air_C)) /
+  dxdt[kTemp] = pack.thermal ? (heat / (static_cast<double>(pack.series) * pack.parallel) -
+                                pack.hA_W_per_K * (x[kTemp] - pack.air_C)) /
                                    pack.heat_capacity_J_per_K
                              : 0.0;
 }
