@@ -15,14 +15,19 @@ battery::Pack demo_pack() {
 // A 4S pack of a two-RC cell at 1C to its cutoff, no trace: the integrator's cost for a whole
 // discharge (about an hour of simulated time). The demo cell has a thermal block, so this is the
 // coupled six-state run; the _isothermal case is the same pack without it.
-const bool reg_1c = bench::add_case("discharge_1C_4S2RC", [] {
-  static const battery::Pack pack = demo_pack();
+/// 1C to the cell's cutoff, no trace.
+double discharge_1c(const battery::Pack& pack) {
   sim::DischargeSpec spec;
   spec.load = sim::DischargeSpec::Load::current;
-  spec.value = pack.cell.capacity_Ah * pack.parallel;  // 1C
+  spec.value = pack.cell.capacity_Ah * pack.parallel;
   spec.cutoff_cell_V = pack.cell.v_cutoff_V;
   spec.sample_s = 0.0;
-  bench::keep(sim::discharge(pack, spec).time_to_end_s);
+  return sim::discharge(pack, spec).time_to_end_s;
+}
+
+const bool reg_1c = bench::add_case("discharge_1C_4S2RC", [] {
+  static const battery::Pack pack = demo_pack();
+  bench::keep(discharge_1c(pack));
 });
 
 const bool reg_1c_iso = bench::add_case("discharge_1C_4S2RC_isothermal", [] {
@@ -31,12 +36,7 @@ const bool reg_1c_iso = bench::add_case("discharge_1C_4S2RC_isothermal", [] {
     p.cell.thermal.reset();
     return p;
   }();
-  sim::DischargeSpec spec;
-  spec.load = sim::DischargeSpec::Load::current;
-  spec.value = pack.cell.capacity_Ah * pack.parallel;  // 1C
-  spec.cutoff_cell_V = pack.cell.v_cutoff_V;
-  spec.sample_s = 0.0;
-  bench::keep(sim::discharge(pack, spec).time_to_end_s);
+  bench::keep(discharge_1c(pack));
 });
 
 const bool reg_power = bench::add_case("discharge_300W_4S2RC", [] {
