@@ -29,7 +29,7 @@ namespace {
 struct FitCellOptions {
   std::string log_file, out_file, columns;
   bool discharge_positive = false, discharge_negative = false;
-  std::optional<double> capacity_Ah, soc0, v_max_V, v_cutoff_V, mass_kg, i_cont_max_A;
+  std::optional<double> capacity_Ah, soc0, v_max_V, v_cutoff_V, mass_kg, i_cont_max_A, air_C;
   int rc = 2;
   int series = 1, parallel = 1;
   double soc_band = 0.1, rest_min_s = 300.0;
@@ -68,6 +68,7 @@ int run_fit_cell(const FitCellOptions& o) {
   fo.name = o.name;
   fo.chemistry = o.chemistry;
   fo.mass_kg = o.mass_kg;
+  fo.air_C = o.air_C;
   fo.i_cont_max_A = o.i_cont_max_A;
   if (o.v_max_V && o.v_cutoff_V && *o.v_cutoff_V >= *o.v_max_V)
     throw UsageError("--v-cutoff-V: at or above --v-max-V");
@@ -134,6 +135,9 @@ void add_fit_cell(CLI::App& fit, int& exit_code) {
   c->add_option("--name", o->name, "name written into the model");
   c->add_option("--chemistry", o->chemistry, "chemistry written into the model (e.g. LiPo, Li-ion)");
   c->add_option("--mass-kg", o->mass_kg, "cell mass, kg (written into the model)")->check(CLI::PositiveNumber);
+  c->add_option("--air-C", o->air_C,
+                "air temperature around the cell during the test, °C, for the thermal block (default: fitted)")
+      ->check(CLI::Range(-60.0, 100.0));
   c->add_option("--i-cont-max-A", o->i_cont_max_A, "continuous current limit, A (default: the largest in the log)")
       ->check(CLI::PositiveNumber);
   c->add_option("--report", o->report_file, "write the fit report (text) to FILE");

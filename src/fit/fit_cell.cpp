@@ -518,12 +518,32 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
     out.warnings.push_back("mass_kg not given: " + format_fixed(c.mass_kg, 3) +
                            " kg written as a placeholder (200 Wh/kg); weigh the cell and give --mass-kg");
   }
+  // --- thermal block, from a temperature column ---
+  if (out.has_temperature) {
+    std::string why;
+    out.thermal = fit_thermal(log, soc, c, opts.air_C, why);
+    if (out.thermal) {
+      const double cp = out.thermal->heat_capacity_J_per_K / c.mass_kg;
+      if (cp < 100.0 || cp > 5000.0) {
+        out.warnings.push_back("thermal block not written: the fitted heat capacity " +
+                               format_fixed(out.thermal->heat_capacity_J_per_K, 1) + " J/K is " + format_fixed(cp, 0) +
+                               " J/(kg·K) for " + format_fixed(c.mass_kg, 3) +
+                               " kg (expected 100 to 5000; give --mass-kg, or check the temperature sensor's contact)");
+        out.thermal.reset();
+      } else {
+        c.thermal = battery::Thermal{cp, out.thermal->hA_W_per_K};
+      }
+    } else {
+      out.warnings.push_back("no thermal block: " + why);
+    }
+  }
   out.note = "Fitted by sortie fit cell from " + std::filesystem::path(log.file).filename().string() + " (" +
              std::to_string(n) + " rows): capacity " + se.capacity_source + "; OCV fitted with the RC pairs, started from " +
              std::to_string(out.ocv_rest_points) + " rest ends and " + std::to_string(out.ocv_loaded_points) +
              " low-rate rows; " + std::to_string(nrc) + " RC pair(s)" +
              (out.tables ? " as tables over SoC" : " as constants") +
              (out.has_temperature ? "; at a mean cell temperature of " + format_fixed(out.temperature_mean_C, 1) + " °C" : "") +
+             (out.thermal ? "; thermal block from the logged temperature" : "") +
              (opts.mass_kg ? "" : "; mass_kg is a placeholder") + ". An estimate from measurements, not a rating.";
   return out;
 }

@@ -22,6 +22,7 @@
 #include "fit/cell_log.hpp"
 #include "fit/levenberg_marquardt.hpp"
 #include "fit/soc.hpp"
+#include "fit/thermal_fit.hpp"
 
 namespace sortie::fit {
 
@@ -36,6 +37,7 @@ struct CellFitOptions {
   std::optional<double> mass_kg;
   std::optional<double> i_cont_max_A;
   int max_iterations = 200;    ///< per Levenberg–Marquardt run
+  std::optional<double> air_C;  ///< air around the cell in the test, °C (thermal fit; else fitted)
 };
 
 /// The fit in one SoC band (a knot and half the spacing either side).
@@ -76,6 +78,7 @@ struct CellFitResult {
   int iterations = 0;         ///< Levenberg–Marquardt steps in all
   LmStatus status = LmStatus::converged;
   double fit_rmse_V = 0.0;    ///< of the fit's own recurrence over the rows used
+  std::optional<ThermalFit> thermal;  ///< with a temperature column that moves enough
   std::vector<std::string> notes;
   std::vector<std::string> warnings;
 };

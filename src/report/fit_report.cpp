@@ -70,6 +70,17 @@ std::string fit_cell_text(const fit::CellLog& log, const fit::CellFitResult& r,
                               " rows the fit counts (long charges and the rests after them are left out: the OCV "
                               "on charge lies higher, by hysteresis)");
   kv.add("mean error", fixed(1000.0 * e.all.mean_V, 1) + " mV (model minus measured)");
+  if (r.thermal && r.cell.thermal) {
+    const auto& t = *r.thermal;
+    kv.add("thermal block", "heat capacity " + fixed(t.heat_capacity_J_per_K, 1) + " J/K (" +
+                                fixed(r.cell.thermal->c_J_per_kgK, 0) + " J/(kg·K) for " + fixed(r.cell.mass_kg, 3) +
+                                " kg), hA " + fixed(t.hA_W_per_K, 4) + " W/K (time constant " +
+                                (t.hA_W_per_K > 0 ? fixed(t.heat_capacity_J_per_K / t.hA_W_per_K / 60.0, 1) + " min"
+                                                  : std::string("none")) +
+                                "), air " + fixed(t.air_C, 1) + " °C" + (t.air_given ? " (given)" : " (fitted)"));
+    kv.add("", "temperature RMSE " + fixed(t.rmse_K, 2) + " K, largest " + fixed(t.max_error_K, 2) +
+                   " K (the block re-run on the circuit's heat over " + std::to_string(t.rows) + " rows)");
+  }
   out += kv.render();
 
   out += "\nparameters per SoC band (R0 step: -dV/dI across the band's current steps)\n";
@@ -138,6 +149,14 @@ nlohmann::ordered_json fit_cell_json(const fit::CellLog& log, const fit::CellFit
   j["status"] = fit::to_string(r.status);
   j["voltage_rmse_V"] = e.all.rmse_V;
   j["voltage_max_error_V"] = e.all.max_abs_V;
+  if (r.thermal && r.cell.thermal)
+    j["thermal"] = {{"heat_capacity_J_per_K", r.thermal->heat_capacity_J_per_K},
+                    {"c_J_per_kgK", r.cell.thermal->c_J_per_kgK},
+                    {"hA_W_per_K", r.thermal->hA_W_per_K},
+                    {"air_C", r.thermal->air_C},
+                    {"air_given", r.thermal->air_given},
+                    {"temperature_rmse_K", r.thermal->rmse_K},
+                    {"temperature_max_error_K", r.thermal->max_error_K}};
   j["voltage_max_error_line"] = e.all.rows ? log.line[e.all.max_row] : 0;
   j["voltage_mean_error_V"] = e.all.mean_V;
   j["counted_rows"] = e.counted.rows;

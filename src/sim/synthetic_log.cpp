@@ -42,7 +42,7 @@ double quantise(double v, double step) { return step > 0 ? std::round(v / step) 
 class Runner {
  public:
   Runner(const battery::Cell& cell, const PulseTestProtocol& p, const MeasurementNoise& noise)
-      : pack_(make_pack(cell, p.soc_start)), model_(pack_), p_(p), noise_(noise), normal_(noise.seed) {
+      : pack_(make_pack(cell, p)), model_(pack_), p_(p), noise_(noise), normal_(noise.seed) {
     x_ = model_.initial_state(p.soc_start);
     record(0.0, terminal(0.0).v_terminal_V);
   }
@@ -96,12 +96,13 @@ class Runner {
   SyntheticLog take() { return std::move(log_); }
 
  private:
-  static battery::Pack make_pack(const battery::Cell& cell, double soc0) {
+  static battery::Pack make_pack(const battery::Cell& cell, const PulseTestProtocol& pr) {
     battery::Pack p;
     p.cell = cell;
-    p.cell.thermal.reset();  // a test held at 25 °C: the log's model is isothermal
-    p.soc0 = soc0;
-    p.temperature_C = 25.0;
+    if (!pr.thermal) p.cell.thermal.reset();  // a test held at 25 °C: the log's model is isothermal
+    p.soc0 = pr.soc_start;
+    p.temperature_C = pr.thermal ? pr.air_C : 25.0;
+    p.air_C = p.temperature_C;
     return p;
   }
 
@@ -110,12 +111,13 @@ class Runner {
   ///   v_V = OCV(s) − OCV'(s)·I·dt/C − R0·I − Σ (R_p·I·(1 − a_p) + a_p·v_p)
   double current_for_voltage(double v_V, double dt_s) const {
     const double soc = x_[battery::kSoc];
-    double num = model_.ocv_pack(soc) - v_V, den = model_.r0_pack_ohm(soc);
+    const double rs = model_.r_scale(x_[battery::kTemp]);
+    double num = model_.ocv_pack(soc) - v_V, den = model_.r0_pack(soc, x_[battery::kTemp]);
     den += model_.series * model_.ocv_cell_V.slope(soc) * dt_s / model_.capacity_C;
     for (std::size_t k = 0; k < model_.n_rc; ++k) {
       const double a = std::exp(-dt_s / model_.tau_s[k](soc));
       num -= a * x_[battery::kV1 + k];
-      den += model_.r_pack_ohm[k](soc) * (1.0 - a);
+      den += model_.r_pack_ohm[k](soc) * rs * (1.0 - a);
     }
     return num / den;
   }
@@ -146,6 +148,11 @@ class Runner {
     log_.i_true_A.push_back(i_last_);
     log_.voltage_V.push_back(quantise(v_true + noise_.voltage_sd_V * normal_(), noise_.voltage_step_V));
     log_.current_A.push_back(quantise(i_last_ + noise_.current_sd_A * normal_(), noise_.current_step_A));
+    if (p_.thermal) {  // drawn after the others, so an isothermal log is the same as before
+      const double T = x_[battery::kTemp];
+      log_.temperature_true_C.push_back(T);
+      log_.temperature_C.push_back(quantise(T + noise_.temperature_sd_C * normal_(), noise_.temperature_step_C));
+    }
   }
 
   battery::Pack pack_;

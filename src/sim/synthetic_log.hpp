@@ -36,6 +36,10 @@ struct PulseTestProtocol {
   double sample_s = 1.0;         ///< logging interval under load, s
   double pulse_sample_s = 0.1;   ///< logging interval during pulses and the rests after them, s
   double rest_sample_s = 10.0;   ///< logging interval at rest, s (irregular time steps)
+  /// Run the cell's thermal block (if it has one) with the cell starting at and cooling in
+  /// air_C, and log the cell temperature; otherwise the test is isothermal at 25 °C and logs none.
+  bool thermal = false;
+  double air_C = 25.0;
 };
 
 struct MeasurementNoise {
@@ -45,6 +49,8 @@ struct MeasurementNoise {
   double current_step_A = 0.001;
   std::uint64_t seed = 1;          ///< std::mt19937_64 seed (the normal deviates are our own
                                    ///< Box–Muller, so the log is the same on every platform)
+  double temperature_sd_C = 0.05;  ///< thermal protocols only
+  double temperature_step_C = 0.1;
 };
 
 struct SyntheticLog {
@@ -54,9 +60,11 @@ struct SyntheticLog {
   std::vector<double> soc_true;    ///< the model's SoC at each row
   std::vector<double> v_true_V;    ///< the model's voltage at each row
   std::vector<double> i_true_A;    ///< the current applied over the interval ending at each row
+  std::vector<double> temperature_C;       ///< measured cell temperature (thermal protocols; else empty)
+  std::vector<double> temperature_true_C;  ///< the model's
 };
 
-/// Run the protocol on one cell at its reference temperature. Throws LimitError if a stretch
+/// Run the protocol on one cell (at 25 °C, or with its thermal block, see `thermal`). Throws LimitError if a stretch
 /// does not end (a protocol that never reaches its limits).
 SyntheticLog synthetic_pulse_test(const battery::Cell& cell, const PulseTestProtocol& protocol,
                                   const MeasurementNoise& noise);

@@ -166,3 +166,45 @@ TEST_CASE("fit drive: no diameter is bad usage and too few steps bad input") {
 }
 
 }  // TEST_SUITE
+
+TEST_SUITE("cli") {
+
+TEST_CASE("fit cell: a log with a temperature column gives a model with a thermal block that fly uses") {
+  // A synthetic pulse test of the demo cell with 4C steps, its thermal block on, in 18 °C air.
+  const battery::Cell truth = io::load_cell_file(source_path(kDemoLogCell));
+  sim::PulseTestProtocol p;
+  p.step_C = 4.0;
+  p.step_rest_s = 2400.0;
+  p.thermal = true;
+  p.air_C = 18.0;
+  const sim::SyntheticLog s = sim::synthetic_pulse_test(truth, p, sim::MeasurementNoise{});
+  std::string csv = "Time (s),Current (A),Voltage (V),Temperature (degC)\n";
+  char buf[96];
+  for (std::size_t k = 0; k < s.time_s.size(); ++k) {
+    std::snprintf(buf, sizeof buf, "%.1f,%.3f,%.3f,%.1f\n", s.time_s[k], s.current_A[k] + 0.0, s.voltage_V[k], s.temperature_C[k]);
+    csv += buf;
+  }
+  const std::string log = write_work_file("thermal-log.csv", csv);
+  const std::string model = work_path("thermal-cell.json");
+  const auto r = run_sortie({"fit", "cell", log, "--out", model, "--mass-kg", "0.118", "--json", "-"});
+  REQUIRE_MESSAGE(r.exit_code == 0, r.err);
+  const json j = json::parse(r.out);
+  REQUIRE(j.contains("thermal"));
+  CHECK(j["thermal"]["c_J_per_kgK"].get<double>() == doctest::Approx(1000.0).epsilon(0.05));
+  CHECK(j["thermal"]["hA_W_per_K"].get<double>() == doctest::Approx(0.08).epsilon(0.10));
+  const json cell = json::parse(read_file(model));
+  REQUIRE(cell.contains("thermal"));
+  CHECK(cell["thermal"]["c_J_per_kgK"] == j["thermal"]["c_J_per_kgK"]);
+  const auto text = run_sortie({"fit", "cell", log, "--out", work_path("thermal-cell-2.json"), "--mass-kg", "0.118"});
+  CHECK(text.out.find("thermal block     heat capacity") != std::string::npos);
+  // The fitted cell flies, and the pack warms in flight.
+  const std::string pack =
+      write_work_file("thermal-pack.json", json({{"cell", "thermal-cell.json"}, {"series", 6}, {"temperature_C", 10}}).dump());
+  const auto fly = run_sortie({"fly", source_path("profiles/demo-quad-water-tank.json"), "--pack", pack, "--json", "-"});
+  REQUIRE_MESSAGE((fly.exit_code == 0 || fly.exit_code == 3), fly.err);
+  const json jf = json::parse(fly.out);
+  REQUIRE(jf.contains("cell_temperature_C"));
+  CHECK(jf["cell_temperature_C"]["max"].get<double>() > 10.0);
+}
+
+}  // TEST_SUITE

@@ -1,0 +1,108 @@
+// The thermal block from a logged cell temperature (fit/thermal_fit): a synthetic pulse test run
+// with a known thermal block gives it back; a log whose temperature does not move gives none.
+#include <doctest/doctest.h>
+
+#include <cmath>
+
+#include "fit/fit_cell.hpp"
+#include "io/battery_json.hpp"
+#include "sim/synthetic_log.hpp"
+#include "support/cli.hpp"
+#include "support/synthetic.hpp"
+
+using namespace sortie;
+
+namespace {
+
+fit::CellLog as_log(const sim::SyntheticLog& s) {
+  fit::CellLog log;
+  log.file = "synthetic";
+  log.time_s = s.time_s;
+  log.current_A = s.current_A;
+  log.voltage_V = s.voltage_V;
+  log.temperature_C = s.temperature_C;
+  for (std::size_t k = 0; k < s.time_s.size(); ++k) log.line.push_back(k + 2);
+  return log;
+}
+
+/// A pulse test hard enough to warm the cell: 4C steps between the pulse sets.
+sim::PulseTestProtocol warm_protocol(double air_C) {
+  sim::PulseTestProtocol p;
+  p.step_C = 4.0;
+  p.step_rest_s = 2400.0;
+  p.thermal = true;
+  p.air_C = air_C;
+  return p;
+}
+
+}  // namespace
+
+TEST_SUITE("fit") {
+
+TEST_CASE("fit thermal: a synthetic log with a known thermal block gives its heat capacity and hA back") {
+  // The invented demo cell: 0.118 kg at 1000 J/(kg·K) = 118 J/K, hA 0.08 W/K (τ ≈ 25 min).
+  const battery::Cell truth = io::load_cell_file(test::source_path(test::kDemoLogCell));
+  REQUIRE(truth.thermal);
+  for (const std::uint64_t seed : {std::uint64_t{20240611}, std::uint64_t{99}}) {
+    MESSAGE("seed " << seed);
+    sim::MeasurementNoise noise;
+    noise.seed = seed;
+    const sim::SyntheticLog s = sim::synthetic_pulse_test(truth, warm_protocol(18.0), noise);
+    REQUIRE(s.temperature_C.size() == s.time_s.size());
+    fit::CellFitOptions o;
+    o.mass_kg = truth.mass_kg;
+    const fit::CellFitResult r = fit::fit_cell(as_log(s), o);
+    REQUIRE(r.thermal);
+    REQUIRE(r.cell.thermal);
+    MESSAGE("C " << r.thermal->heat_capacity_J_per_K << " J/K, hA " << r.thermal->hA_W_per_K << " W/K, air "
+                 << r.thermal->air_C << " °C, RMSE " << r.thermal->rmse_K << " K, swing "
+                 << r.thermal->temperature_max_C - r.thermal->temperature_min_C << " K");
+    CHECK(r.cell.thermal->c_J_per_kgK == doctest::Approx(truth.thermal->c_J_per_kgK).epsilon(0.05));
+    CHECK(r.cell.thermal->hA_W_per_K == doctest::Approx(truth.thermal->hA_W_per_K).epsilon(0.10));
+    CHECK(r.thermal->air_C == doctest::Approx(18.0).epsilon(0.02));
+    // The fitted model follows the logged temperature to about its noise and resolution
+    // (σ 0.05 K, steps of 0.1 K).
+    CHECK(r.thermal->rmse_K < 0.15);
+    // The air temperature given: two unknowns, the same answer.
+    o.air_C = 18.0;
+    const fit::CellFitResult g = fit::fit_cell(as_log(s), o);
+    REQUIRE(g.cell.thermal);
+    CHECK(g.thermal->air_given);
+    CHECK(g.cell.thermal->hA_W_per_K == doctest::Approx(truth.thermal->hA_W_per_K).epsilon(0.10));
+  }
+}
+
+TEST_CASE("fit thermal: a temperature that barely moves gives a warning and no thermal block") {
+  const battery::Cell truth = io::load_cell_file(test::source_path(test::kDemoLogCell));
+  sim::PulseTestProtocol p = warm_protocol(25.0);
+  p.step_C = 0.5;  // gentle: the cell warms by a few tenths of a kelvin
+  p.pulse_C = 1.0;
+  p.charge_pulse_C = 0.5;
+  battery::Cell big = truth;
+  big.thermal->hA_W_per_K = 5.0;  // and is held near the air by a large cooling
+  const sim::SyntheticLog s = sim::synthetic_pulse_test(big, p, sim::MeasurementNoise{});
+  fit::CellFitOptions o;
+  o.mass_kg = truth.mass_kg;
+  const fit::CellFitResult r = fit::fit_cell(as_log(s), o);
+  CHECK_FALSE(r.thermal);
+  CHECK_FALSE(r.cell.thermal);
+  bool warned = false;
+  for (const auto& w : r.warnings) warned = warned || w.rfind("no thermal block: the cell temperature moves", 0) == 0;
+  CHECK(warned);
+}
+
+TEST_CASE("fit thermal: an isothermal synthetic log is the same with or without the thermal option") {
+  // The bundled demo log was made with the thermal option off: its rows do not depend on the
+  // cell's thermal block.
+  const battery::Cell truth = io::load_cell_file(test::source_path(test::kDemoLogCell));
+  battery::Cell plain = truth;
+  plain.thermal.reset();
+  sim::PulseTestProtocol p;
+  p.step_soc = 0.3;
+  const sim::SyntheticLog a = sim::synthetic_pulse_test(truth, p, sim::MeasurementNoise{});
+  const sim::SyntheticLog b = sim::synthetic_pulse_test(plain, p, sim::MeasurementNoise{});
+  CHECK(a.voltage_V == b.voltage_V);
+  CHECK(a.temperature_C.empty());
+}
+
+}  // TEST_SUITE
