@@ -11,14 +11,21 @@ namespace {
 std::string limit_words(const sim::CompareRow& row) {
   const auto& r = row.result;
   if (r.refused) return "cannot fly: " + r.end_detail;
-  if (!r.completed) return "ends early: " + r.end_kind;
+  if (!r.completed) {
+    if (r.end_kind == "cutoff_voltage") return "ends early at the cell cutoff";
+    if (r.end_kind == "saturation") return "ends early: the drive saturates";
+    if (r.end_kind == "power_collapse") return "ends early: power collapse";
+    if (r.end_kind == "soc_floor") return "ends early: pack empty";
+    return "ends early: " + r.end_kind;
+  }
   if (!r.go) {
-    std::string s = "fails:";
+    std::string s = "fails";
+    const char* sep = ": ";
     for (const auto& rule : r.rules)
-      if (!rule.pass) s += " " + rule.name;
+      if (!rule.pass) s += sep + rule_words(rule.name), sep = ", ";
     return s;
   }
-  return row.spare.binding_rule.empty() ? "" : "then " + row.spare.binding_rule;
+  return row.spare.binding_rule.empty() ? "" : "then " + rule_words(row.spare.binding_rule) + " binds";
 }
 
 std::string spare_cell(const sim::CompareRow& row) {

@@ -164,7 +164,12 @@ TEST_CASE("compare: packs ranked by spare time — heavier packs heavier aircraf
     for (const char* k : {"pack_mass_kg", "all_up_mass_kg", "landing_soc", "c_rate_max", "duty_mean", "eta_esc_mean"})
       CHECK(row[k].is_number());
     CHECK(row["all_up_mass_kg"].get<double>() - row["pack_mass_kg"].get<double>() == doctest::Approx(1.9));
+    // What limits the pack, in the rules' own words.
+    const std::string limit = row["limit"].get<std::string>();
+    if (go) CHECK(limit == "then charge at landing binds");
+    else CHECK((limit == "ends early at the cell cutoff" || limit.rfind("fails: ", 0) == 0));
   }
+  CHECK(nogo);  // the 4S 3 Ah pack
   CHECK_FALSE(go_seen_after_nogo);
 }
 
