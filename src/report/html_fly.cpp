@@ -33,6 +33,8 @@ const char* kCurrent = "#7a3d8c";
 const char* kDuty = "#0b6e8a";
 const char* kEtaDrive = "#8a6d00";
 const char* kEtaEsc = "#7a3d8c";
+const char* kTemperature = "#a33b20";
+const char* kAir = "#4f6d7a";
 
 /// Time axis in minutes for anything longer than a few minutes, else seconds.
 struct TimeAxis {
@@ -148,6 +150,26 @@ std::string current_plot(const sim::Mission& m, const sim::MissionResult& r, con
   p.lines = {i};
   const double limit = m.pack.cell.i_cont_max_A * m.pack.parallel;
   if (r.i_max_A > 0.7 * limit) p.levels.push_back({limit, "continuous limit " + fixed(limit, 0) + " A", kReserve});
+  p.bands = phase_bands(r, ta);
+  return svg::render(p);
+}
+
+std::string temperature_plot(const sim::MissionResult& r, const TimeAxis& ta) {
+  svg::LinePlot p;
+  p.id = kFlyThermalPlot;
+  p.title = "Cell temperature over the flight";
+  p.right_margin = true;  // lines up with the plots above, which have a right-hand axis
+  p.x = time_x(r, ta);
+  p.y = {"cell temperature", "°C", {}, {}};
+  svg::Line t{"cell temperature", {}, {}, kTemperature};
+  for (const auto& tp : r.trace) {
+    t.x.push_back(tp.s.t * ta.per_s);
+    t.y.push_back(tp.s.x[battery::kTemp]);
+  }
+  p.lines = {t};
+  p.levels.push_back({r.air_C, "air " + fixed(r.air_C, 1) + " °C", kAir});
+  if (r.temperature_max_C > battery::kCellHotC - 10.0)
+    p.levels.push_back({battery::kCellHotC, "usual discharge limit " + fixed(battery::kCellHotC, 0) + " °C", kReserve});
   p.bands = phase_bands(r, ta);
   return svg::render(p);
 }
@@ -292,6 +314,11 @@ std::string fly_html(const sim::Mission& m, const sim::MissionResult& r, const s
                             fixed(m.pack.cell.capacity_Ah * m.pack.parallel, 2) +
                             " Ah; the cells' continuous limit is " +
                             fixed(m.pack.cell.i_cont_max_A * m.pack.parallel, 0) + " A for the pack. " + trace_note);
+  if (r.thermal)
+    plots += html::figure("Cell temperature", temperature_plot(r, ta),
+                          "One temperature per cell (a lumped thermal model): the cells warm with their losses and give "
+                          "heat to the air at the field. Resistance follows the cell's temperature table as they warm. " +
+                              trace_note);
   plots += html::figure("ESC duty and drive efficiency", duty_plot(r, ta),
                         "Duty is the motor voltage over the bus voltage. Drive efficiency is each phase's shaft energy over "
                         "the energy into the ESCs; the ESC's share is shown as its mean over the flight. " + trace_note);

@@ -1,8 +1,11 @@
 #pragma once
 /// `sortie fly --html`: the verdict and the reserve rules first, then the pack's voltage and
-/// charge, current and C-rate, duty and efficiency over the flight (from the trace), energy per
-/// phase, the phase table, the setup and the events; the Cautions box last.
+/// charge, current and C-rate, cell temperature (with a thermal model), duty and efficiency over
+/// the flight (from the trace), energy per phase, the phase table, the setup and the events; the
+/// Cautions box last.
+#include <iterator>
 #include <string>
+#include <vector>
 
 #include "sim/mission.hpp"
 
@@ -11,6 +14,14 @@ namespace sortie::report {
 /// The plots the fly page draws, by their data-plot id, in page order.
 inline constexpr const char* kFlyPlots[] = {"fly-voltage-soc", "fly-current", "fly-duty-efficiency",
                                             "fly-energy-per-phase"};
+/// The plot added after the current plot when the cell has a thermal model.
+inline constexpr const char* kFlyThermalPlot = "fly-cell-temperature";
+/// The plots of a fly page in order (data-plot ids).
+inline std::vector<std::string> fly_plot_ids(bool thermal) {
+  std::vector<std::string> ids(std::begin(kFlyPlots), std::end(kFlyPlots));
+  if (thermal) ids.insert(ids.begin() + 2, kFlyThermalPlot);
+  return ids;
+}
 
 /// The whole page. `r` should carry a trace (SimOptions::sample_s > 0); without one the time
 /// plots say so and draw only the phase bands.

@@ -27,7 +27,7 @@ h2 { font-size: 17px; margin: 0 0 10px; }
 .verdict.nogo { background: var(--nogo); }
 .verdict .word { font-size: 34px; font-weight: bold; letter-spacing: 0.04em; white-space: nowrap; border: 3px solid #ffffff; border-radius: 5px; padding: 2px 14px; }
 .verdict p { margin: 0; font-size: 17px; line-height: 1.4; }
-.cards { display: grid; grid-template-columns: repeat(auto-fit, minmax(180px, 1fr)); gap: 10px; margin: 0 0 16px; }
+.cards { display: grid; grid-template-columns: repeat(auto-fit, minmax(150px, 1fr)); gap: 10px; margin: 0 0 16px; }
 .card { border-left: 4px solid var(--accent); background: #f5f8f9; padding: 7px 12px 8px; }
 .card.alert { border-left-color: var(--nogo); background: #fbeff1; }
 .card .label { font-size: 13px; color: var(--muted); }

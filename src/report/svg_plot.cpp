@@ -226,7 +226,7 @@ std::string render(const LinePlot& p) {
     double x, row;
   };
   std::vector<Entry> legend;
-  const double ml = 86.0, mr = p.y2 ? 86.0 : 30.0;
+  const double ml = 86.0, mr = p.y2 || p.right_margin ? 86.0 : 30.0;
   {
     double x = ml, row = 0;
     for (const auto& l : p.lines) {

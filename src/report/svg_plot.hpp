@@ -81,6 +81,9 @@ struct LinePlot {
   std::vector<Band> bands;
   double width = 1200.0, height = 400.0;  ///< viewBox size; the page scales it to its column
   std::size_t max_points = 1500;          ///< per line, see thin()
+  /// Keep a second axis's right margin without one, so that plots stacked on a page line up
+  /// their x axes.
+  bool right_margin = false;
 };
 
 std::string render(const LinePlot& p);
