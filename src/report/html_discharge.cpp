@@ -17,6 +17,9 @@ const char* kCharge = "#c46a00";
 const char* kCutoff = "#6b2737";
 const char* kCurrent = "#7a3d8c";
 const char* kPower = "#5c7f1f";
+const char* kTemperature = "#a33b20";
+const char* kAir = "#4f6d7a";
+const char* kHot = "#b23a48";
 
 const char* end_words(sim::EndReason e) {
   switch (e) {
@@ -36,7 +39,7 @@ std::string discharge_html(const battery::Pack& pack, const std::string& load_la
   html::Page page("Discharge: " + name, "sortie discharge · " + pack.layout() + " " + fixed(pack.capacity_Ah(), 2) +
                                             " Ah at " + fixed(pack.temperature_C, 0) + " °C · " + load_label);
   const double rated_Ah = pack.cell.capacity_Ah * pack.parallel;
-  page.add(html::cards({
+  std::vector<html::Card> cards = {
       {"time to end", keyed("time_to_end_s", fixed(r.time_to_end_s, 1) + " s"), duration_hms(r.time_to_end_s)},
       {"energy delivered", keyed("energy_Wh", fixed(r.energy_Wh, 2) + " Wh"), ""},
       {"charge delivered", keyed("charge_Ah", fixed(r.charge_Ah, 3) + " Ah"), ""},
@@ -44,7 +47,12 @@ std::string discharge_html(const battery::Pack& pack, const std::string& load_la
        fixed(r.v_min_V / pack.series, 3) + " V per cell"},
       {"highest current", keyed("i_max_A", fixed(r.i_max_A, 2) + " A"), fixed(r.i_max_A / rated_Ah, 2) + " C"},
       {"charge at the end", keyed("soc_end", fixed(r.soc_end * 100, 1) + " %"), ""},
-  }));
+  };
+  if (r.thermal)
+    cards.push_back({"cell temperature", keyed("cell_temperature_C.max", fixed(r.temperature_max_C, 1) + " °C"),
+                     "highest; " + fixed(pack.temperature_C, 1) + " °C at the start, air " + fixed(r.air_C, 1) + " °C",
+                     r.temperature_max_C > battery::kCellHotC});
+  page.add(html::cards(cards));
   page.section("Why it ended", "<p>" + html::esc(end_words(r.end_reason)) + " (" +
                                    keyed("end_reason", sim::to_string(r.end_reason)) + ").</p>\n");
 
@@ -91,6 +99,26 @@ std::string discharge_html(const battery::Pack& pack, const std::string& load_la
   const std::string note = r.trace.empty() ? "No trace was recorded for this run." : "";
   std::string plots = html::figure("Pack voltage and state of charge", svg::render(v), note);
   plots += html::figure("Current and power", svg::render(ip), note);
+  if (r.thermal) {
+    svg::LinePlot tp;
+    tp.id = kDischargeThermalPlot;
+    tp.title = "Cell temperature during the discharge";
+    tp.right_margin = true;  // lines up with the plots above
+    tp.x = v.x;
+    tp.y = {"cell temperature", "°C", {}, {}};
+    svg::Line T{"cell temperature", {}, {}, kTemperature};
+    for (const auto& s : r.trace) {
+      T.x.push_back(s.t * per_s);
+      T.y.push_back(s.x[battery::kTemp]);
+    }
+    tp.lines = {T};
+    tp.levels.push_back({r.air_C, "air " + fixed(r.air_C, 1) + " °C", kAir});
+    if (r.temperature_max_C > battery::kCellHotC - 10.0)
+      tp.levels.push_back({battery::kCellHotC, "usual discharge limit " + fixed(battery::kCellHotC, 0) + " °C", kHot});
+    plots += html::figure("Cell temperature", svg::render(tp),
+                          "One temperature per cell (a lumped thermal model), warming with the losses and cooling in the air. " +
+                              note);
+  }
   page.section("During the discharge", plots);
 
   if (!r.events.empty()) {
