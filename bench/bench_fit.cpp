@@ -31,16 +31,6 @@ const sim::SyntheticLog& log_10h() {
   return log;
 }
 
-fit::CellLog as_log(const sim::SyntheticLog& s) {
-  fit::CellLog log;
-  log.file = "bench";
-  log.time_s = s.time_s;
-  log.current_A = s.current_A;
-  log.voltage_V = s.voltage_V;
-  for (std::size_t k = 0; k < s.time_s.size(); ++k) log.line.push_back(k + 2);
-  return log;
-}
-
 std::string as_csv(const sim::SyntheticLog& s) {
   std::string out = "Time (s),Current (A),Voltage (V)\n";
   char buf[96];
@@ -55,7 +45,7 @@ std::string as_csv(const sim::SyntheticLog& s) {
 const bool reg_fit = bench::add_case(
     "fit_cell_10h_1Hz",
     [] {
-      static const fit::CellLog log = as_log(log_10h());
+      static const fit::CellLog log = sim::to_cell_log(log_10h(), "bench");
       bench::keep(fit::fit_cell(log, fit::CellFitOptions{}).fit_rmse_V);
     },
     5);

@@ -195,4 +195,15 @@ SyntheticLog synthetic_pulse_test(const battery::Cell& cell, const PulseTestProt
   return run.take();
 }
 
+fit::CellLog to_cell_log(const SyntheticLog& s, const std::string& file) {
+  fit::CellLog log;
+  log.file = file;
+  log.time_s = s.time_s;
+  log.current_A = s.current_A;
+  log.voltage_V = s.voltage_V;
+  log.temperature_C = s.temperature_C;
+  for (std::size_t k = 0; k < s.time_s.size(); ++k) log.line.push_back(k + 2);
+  return log;
+}
+
 }  // namespace sortie::sim

@@ -16,6 +16,7 @@
 #include <vector>
 
 #include "battery/cell.hpp"
+#include "fit/cell_log.hpp"
 
 namespace sortie::sim {
 
@@ -68,5 +69,9 @@ struct SyntheticLog {
 /// does not end (a protocol that never reaches its limits).
 SyntheticLog synthetic_pulse_test(const battery::Cell& cell, const PulseTestProtocol& protocol,
                                   const MeasurementNoise& noise);
+
+/// The measured columns as the fit reads a log (time, current, voltage, and the temperature when
+/// logged), one section, lines numbered from 2 as under a header.
+fit::CellLog to_cell_log(const SyntheticLog& log, const std::string& file);
 
 }  // namespace sortie::sim

@@ -19,16 +19,6 @@ using namespace sortie;
 
 namespace {
 
-fit::CellLog as_log(const sim::SyntheticLog& s) {
-  fit::CellLog log;
-  log.file = "synthetic";
-  log.time_s = s.time_s;
-  log.current_A = s.current_A;
-  log.voltage_V = s.voltage_V;
-  for (std::size_t k = 0; k < s.time_s.size(); ++k) log.line.push_back(k + 2);
-  return log;
-}
-
 /// The fit's SoC is counted from this log's own full and empty points, so it is an affine image
 /// of the model's: soc_true = a + b·soc_fit, with a and b read at the two anchors.
 struct SocMap {
@@ -60,7 +50,7 @@ TEST_CASE("fit cell: a synthetic pulse test gives back R0 within 2 % and each ta
     sim::MeasurementNoise noise;
     noise.seed = seed;
     const sim::SyntheticLog s = sim::synthetic_pulse_test(truth, sim::PulseTestProtocol{}, noise);
-    const fit::CellFitResult r = fit::fit_cell(as_log(s), fit::CellFitOptions{});
+    const fit::CellFitResult r = fit::fit_cell(sim::to_cell_log(s, "synthetic"), fit::CellFitOptions{});
     const SocMap map = soc_map(r, s);
     REQUIRE(r.tables);
     REQUIRE(r.cell.rc.size() == 2);
@@ -106,7 +96,7 @@ TEST_CASE("fit cell: the written model re-simulated on the log's current matches
   const battery::Cell truth = io::load_cell_file(test::source_path(test::kDemoLogCell));
   MESSAGE("seed " << test::kDemoLogSeed);
   const sim::SyntheticLog s = sim::synthetic_pulse_test(truth, sim::PulseTestProtocol{}, test::demo_log_noise());
-  const fit::CellLog log = as_log(s);
+  const fit::CellLog log = sim::to_cell_log(s, "synthetic");
   const fit::CellFitResult r = fit::fit_cell(log, fit::CellFitOptions{});
   battery::Pack pack;
   pack.cell = r.cell;

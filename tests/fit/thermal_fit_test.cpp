@@ -14,17 +14,6 @@ using namespace sortie;
 
 namespace {
 
-fit::CellLog as_log(const sim::SyntheticLog& s) {
-  fit::CellLog log;
-  log.file = "synthetic";
-  log.time_s = s.time_s;
-  log.current_A = s.current_A;
-  log.voltage_V = s.voltage_V;
-  log.temperature_C = s.temperature_C;
-  for (std::size_t k = 0; k < s.time_s.size(); ++k) log.line.push_back(k + 2);
-  return log;
-}
-
 /// A pulse test hard enough to warm the cell: 4C steps between the pulse sets.
 sim::PulseTestProtocol warm_protocol(double air_C) {
   sim::PulseTestProtocol p;
@@ -51,7 +40,7 @@ TEST_CASE("fit thermal: a synthetic log with a known thermal block gives its hea
     REQUIRE(s.temperature_C.size() == s.time_s.size());
     fit::CellFitOptions o;
     o.mass_kg = truth.mass_kg;
-    const fit::CellFitResult r = fit::fit_cell(as_log(s), o);
+    const fit::CellFitResult r = fit::fit_cell(sim::to_cell_log(s, "synthetic"), o);
     REQUIRE(r.thermal);
     REQUIRE(r.cell.thermal);
     MESSAGE("C " << r.thermal->heat_capacity_J_per_K << " J/K, hA " << r.thermal->hA_W_per_K << " W/K, air "
@@ -65,7 +54,7 @@ TEST_CASE("fit thermal: a synthetic log with a known thermal block gives its hea
     CHECK(r.thermal->rmse_K < 0.15);
     // The air temperature given: two unknowns, the same answer.
     o.air_C = 18.0;
-    const fit::CellFitResult g = fit::fit_cell(as_log(s), o);
+    const fit::CellFitResult g = fit::fit_cell(sim::to_cell_log(s, "synthetic"), o);
     REQUIRE(g.cell.thermal);
     CHECK(g.thermal->air_given);
     CHECK(g.cell.thermal->hA_W_per_K == doctest::Approx(truth.thermal->hA_W_per_K).epsilon(0.10));
@@ -83,7 +72,7 @@ TEST_CASE("fit thermal: a temperature that barely moves gives a warning and no t
   const sim::SyntheticLog s = sim::synthetic_pulse_test(big, p, sim::MeasurementNoise{});
   fit::CellFitOptions o;
   o.mass_kg = truth.mass_kg;
-  const fit::CellFitResult r = fit::fit_cell(as_log(s), o);
+  const fit::CellFitResult r = fit::fit_cell(sim::to_cell_log(s, "synthetic"), o);
   CHECK_FALSE(r.thermal);
   CHECK_FALSE(r.cell.thermal);
   bool warned = false;
