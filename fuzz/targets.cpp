@@ -22,11 +22,20 @@
 #include "io/profile_json.hpp"
 #include "propulsion/bench_map.hpp"
 #include "propulsion/operating_point.hpp"
+#include "report/compare_report.hpp"
 #include "report/discharge_report.hpp"
+#include "report/drive_report.hpp"
+#include "report/html_compare.hpp"
+#include "report/html_discharge.hpp"
+#include "report/html_drive.hpp"
+#include "report/html_fly.hpp"
 #include "report/mission_report.hpp"
+#include "report/result_csv.hpp"
+#include "sim/compare.hpp"
 #include "sim/discharge.hpp"
 #include "sim/mission.hpp"
 #include "sim/replay.hpp"
+#include "support/xml_check.hpp"
 
 namespace sortie::fuzz {
 
@@ -58,8 +67,27 @@ void require_finite(double v, const char* what) {
   if (!std::isfinite(v)) throw std::logic_error(std::string("non-finite ") + what + " from a model that loaded");
 }
 
-/// Run the reports too: they format every number the simulation produced.
-void report_discharge(const battery::Pack& pack, const std::string& label, const sim::DischargeResult& r) {
+/// An HTML report must stay well-formed (tests/support/xml_check.hpp, the check the report tests
+/// use) and draw at finite coordinates: "nan" or "inf" in a position or a path is a broken plot.
+void check_page(const std::string& html, const char* what) {
+  const test::XmlCheck c = test::check_xml(html);
+  if (!c.ok) throw std::logic_error(std::string(what) + " page is not well-formed: " + c.error);
+  for (const auto& e : c.elements) {
+    for (const char* a : {"x", "y", "x1", "y1", "x2", "y2", "cx", "cy", "r", "width", "height", "d", "points",
+                          "transform", "viewBox"}) {
+      const auto it = e.attrs.find(a);
+      if (it == e.attrs.end()) continue;
+      if (it->second.find("nan") != std::string::npos || it->second.find("inf") != std::string::npos)
+        throw std::logic_error(std::string(what) + " page: <" + e.name + " " + a + "=\"" + it->second.substr(0, 80) +
+                               "\"> (line " + std::to_string(e.line) + ")");
+    }
+  }
+}
+
+/// Run the reports too: they format every number the simulation produced, and the HTML page
+/// draws its plots (ticks, scales) from them.
+void report_discharge(const battery::Pack& pack, const std::string& label, const sim::DischargeSpec& spec,
+                      const sim::DischargeResult& r) {
   require_finite(r.time_to_end_s, "discharge time");
   require_finite(r.charge_Ah, "discharge charge");
   require_finite(r.energy_Wh, "discharge energy");
@@ -67,6 +95,15 @@ void report_discharge(const battery::Pack& pack, const std::string& label, const
   (void)report::discharge_text(pack, label, r);
   (void)report::discharge_json(pack, label, r).dump(2);
   (void)report::discharge_trace_csv(r);
+  check_page(report::discharge_html(pack, label, spec, r), "discharge");
+}
+
+/// Every report of `sortie drive` on a result: text, JSON, CSV and the HTML page.
+void report_drive(const report::DriveResult& r) {
+  (void)report::drive_text(r);
+  (void)report::drive_json(r).dump(2);
+  (void)report::drive_csv(r);
+  check_page(report::drive_html(r), "drive");
 }
 
 /// A minute at about 1 C, once at constant current and once under a power ramp.
@@ -82,10 +119,10 @@ void discharge_briefly(const battery::Pack& pack) {
   spec.series.time_s = {0.0, kBriefSeconds};
   spec.series.quantity = sim::LoadSeries::Quantity::current;
   spec.series.value = {i_1c, i_1c};
-  report_discharge(pack, "fuzz current", sim::discharge(pack, spec));
+  report_discharge(pack, "fuzz current", spec, sim::discharge(pack, spec));
   spec.series.quantity = sim::LoadSeries::Quantity::power;
   spec.series.value = {0.5 * i_1c * v, 2.0 * i_1c * v};
-  report_discharge(pack, "fuzz power", sim::discharge(pack, spec));
+  report_discharge(pack, "fuzz power", spec, sim::discharge(pack, spec));
 }
 
 void run_cell(const std::string& text) {
@@ -111,6 +148,31 @@ void run_drive(const std::string& text) {
   (void)propulsion::thrust_available(d, 8.0, rho, v_bus);
   if (hover.motor.status != propulsion::MotorStatus::infeasible)
     (void)propulsion::bus_load(d, hover.motor).power_W(v_bus);
+  // As `sortie drive --cells 3,4,6 --sweep --sweep-step-pct 10` with every report.
+  report::DriveResult r;
+  r.drive_file = "fuzz-drive.json";
+  r.drive = d;
+  r.rho_kg_m3 = rho;
+  for (int cells : {3, 4, 6}) {
+    report::DriveCase c;
+    c.cells = cells;
+    c.cell_V = 3.7;
+    c.v_bus_V = cells * c.cell_V;
+    c.thrust_available_N = propulsion::thrust_available(d, 0.0, rho, c.v_bus_V);
+    for (double pct = 10.0; pct <= 100.0; pct += 10.0)
+      c.rows.push_back({pct, propulsion::at_duty(d, pct / 100.0 * d.esc.duty_max, 0.0, rho, c.v_bus_V)});
+    r.cases.push_back(std::move(c));
+  }
+  report_drive(r);
+  // As `sortie drive --bus-V 14.8 --thrust-N T`.
+  r.cases.clear();
+  r.thrust_N = t;
+  report::DriveCase one;
+  one.v_bus_V = v_bus;
+  one.thrust_available_N = propulsion::thrust_available(d, 0.0, rho, v_bus);
+  one.rows.push_back({std::nullopt, hover});
+  r.cases.push_back(std::move(one));
+  report_drive(r);
 }
 
 void run_airframe(const std::string& text) {
@@ -145,12 +207,22 @@ void run_profile(const std::string& text) {
   (void)report::fly_text(lp.mission, r, none);
   (void)report::fly_json(lp.mission, r, none).dump(2);
   (void)report::fly_trace_csv(r);
+  (void)report::fly_phases_csv(lp.mission, r);
   // The spare-time solve: whole simulations again (the bundled profiles need 15 to 18), capped.
   sim::SpareOptions sp;
   sp.max_simulations = 25;
   sp.sim = so;
   const sim::SpareResult spare = sim::solve_spare(lp.mission, r, sp);
   (void)report::fly_text(lp.mission, r, spare);
+  check_page(report::fly_html(lp.mission, r, spare), "fly");
+  // The compare reports on this one pack (compare's rows carry no trace).
+  sim::CompareRow row{{"fuzz pack", lp.mission.pack}, r, spare};
+  row.result.trace.clear();
+  const std::vector<sim::CompareRow> rows{row};
+  (void)report::compare_text(lp.mission, rows);
+  (void)report::compare_json(lp.mission, rows).dump(2);
+  (void)report::compare_csv(rows);
+  check_page(report::compare_html(lp.mission, rows), "compare");
 }
 
 void run_load_csv(const std::string& text) {
@@ -165,7 +237,7 @@ void run_load_csv(const std::string& text) {
     spec.sample_s = step ? 1.0 : 0.0;
     spec.max_steps = kMaxSteps;
     spec.max_samples = kMaxSamples;
-    report_discharge(demo_pack(), "fuzz load", sim::discharge(demo_pack(), spec));
+    report_discharge(demo_pack(), "fuzz load", spec, sim::discharge(demo_pack(), spec));
   }
 }
 
@@ -193,6 +265,15 @@ void run_bench_csv(const std::string& text) {
   const double lo = map.thrust_min_N(), hi = map.thrust_max_N();
   for (double t : {0.0, lo, 0.5 * (lo + hi), hi, 1.5 * hi})
     (void)propulsion::bus_load(propulsion::bench_at_thrust(map, t)).power_W(map.v_bus_mean_V);
+  // As `sortie drive --bench FILE --thrust-N T` with every report.
+  report::DriveResult r;
+  report::BenchView bv;
+  bv.file = "fuzz-bench.csv";
+  bv.map = map;
+  bv.at_thrust = propulsion::bench_at_thrust(map, 0.5 * (lo + hi));
+  r.bench = std::move(bv);
+  r.thrust_N = 0.5 * (lo + hi);
+  report_drive(r);
 }
 
 }  // namespace
