@@ -1,4 +1,5 @@
 #include "report/html_discharge.hpp"
+#include "report/temperature_plot.hpp"
 
 #include "report/discharge_report.hpp"
 #include "report/html_page.hpp"
@@ -17,9 +18,6 @@ const char* kCharge = "#c46a00";
 const char* kCutoff = "#6b2737";
 const char* kCurrent = "#7a3d8c";
 const char* kPower = "#5c7f1f";
-const char* kTemperature = "#a33b20";
-const char* kAir = "#4f6d7a";
-const char* kHot = "#b23a48";
 
 const char* end_words(sim::EndReason e) {
   switch (e) {
@@ -100,21 +98,13 @@ std::string discharge_html(const battery::Pack& pack, const std::string& load_la
   std::string plots = html::figure("Pack voltage and state of charge", svg::render(v), note);
   plots += html::figure("Current and power", svg::render(ip), note);
   if (r.thermal) {
-    svg::LinePlot tp;
-    tp.id = kDischargeThermalPlot;
-    tp.title = "Cell temperature during the discharge";
-    tp.right_margin = true;  // lines up with the plots above
-    tp.x = v.x;
-    tp.y = {"cell temperature", "°C", {}, {}};
-    svg::Line T{"cell temperature", {}, {}, kTemperature};
+    std::vector<double> t, T;
     for (const auto& s : r.trace) {
-      T.x.push_back(s.t * per_s);
-      T.y.push_back(s.x[battery::kTemp]);
+      t.push_back(s.t * per_s);
+      T.push_back(s.x[battery::kTemp]);
     }
-    tp.lines = {T};
-    tp.levels.push_back({r.air_C, "air " + fixed(r.air_C, 1) + " °C", kAir});
-    if (r.temperature_max_C > battery::kCellHotC - 10.0)
-      tp.levels.push_back({battery::kCellHotC, "usual discharge limit " + fixed(battery::kCellHotC, 0) + " °C", kHot});
+    const svg::LinePlot tp = cell_temperature_plot(kDischargeThermalPlot, "Cell temperature during the discharge", v.x, t,
+                                                   T, r.air_C, r.temperature_max_C);
     plots += html::figure("Cell temperature", svg::render(tp),
                           "One temperature per cell (a lumped thermal model), warming with the losses and cooling in the air. " +
                               note);

@@ -1,4 +1,5 @@
 #include "report/html_fly.hpp"
+#include "report/temperature_plot.hpp"
 
 #include <algorithm>
 #include <cmath>
@@ -33,8 +34,6 @@ const char* kCurrent = "#7a3d8c";
 const char* kDuty = "#0b6e8a";
 const char* kEtaDrive = "#8a6d00";
 const char* kEtaEsc = "#7a3d8c";
-const char* kTemperature = "#a33b20";
-const char* kAir = "#4f6d7a";
 
 /// Time axis in minutes for anything longer than a few minutes, else seconds.
 struct TimeAxis {
@@ -155,21 +154,13 @@ std::string current_plot(const sim::Mission& m, const sim::MissionResult& r, con
 }
 
 std::string temperature_plot(const sim::MissionResult& r, const TimeAxis& ta) {
-  svg::LinePlot p;
-  p.id = kFlyThermalPlot;
-  p.title = "Cell temperature over the flight";
-  p.right_margin = true;  // lines up with the plots above, which have a right-hand axis
-  p.x = time_x(r, ta);
-  p.y = {"cell temperature", "°C", {}, {}};
-  svg::Line t{"cell temperature", {}, {}, kTemperature};
+  std::vector<double> t, T;
   for (const auto& tp : r.trace) {
-    t.x.push_back(tp.s.t * ta.per_s);
-    t.y.push_back(tp.s.x[battery::kTemp]);
+    t.push_back(tp.s.t * ta.per_s);
+    T.push_back(tp.s.x[battery::kTemp]);
   }
-  p.lines = {t};
-  p.levels.push_back({r.air_C, "air " + fixed(r.air_C, 1) + " °C", kAir});
-  if (r.temperature_max_C > battery::kCellHotC - 10.0)
-    p.levels.push_back({battery::kCellHotC, "usual discharge limit " + fixed(battery::kCellHotC, 0) + " °C", kReserve});
+  svg::LinePlot p = cell_temperature_plot(kFlyThermalPlot, "Cell temperature over the flight", time_x(r, ta), t, T,
+                                          r.air_C, r.temperature_max_C);
   p.bands = phase_bands(r, ta);
   return svg::render(p);
 }
