@@ -87,14 +87,6 @@ Terminal Thevenin::terminal(const State& x, double t) const {
   return solve_terminal(emf, pack.r0_pack(soc, x[kTemp]), ocv, demand, t);
 }
 
-double Thevenin::cell_heat_W(const State& x, double current_A) const {
-  const double soc = x[kSoc];
-  const double s = pack.r_scale(x[kTemp]);
-  double q = current_A * current_A * (pack.r0_pack(soc, x[kTemp]) - pack.wiring_ohm);
-  for (std::size_t k = 0; k < pack.n_rc; ++k) q += x[kV1 + k] * x[kV1 + k] / (pack.r_pack_ohm[k](soc) * s);
-  return q / (static_cast<double>(pack.series) * pack.parallel);
-}
-
 void Thevenin::operator()(const State& x, State& dxdt, double t) const {
   // Each table once per call: the RHS is the hot path (STYLE.md).
   const double soc = x[kSoc];

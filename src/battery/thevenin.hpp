@@ -107,8 +107,6 @@ struct Thevenin {
   Demand demand;
 
   Terminal terminal(const State& x, double t) const;
-  /// Heat released in one cell, W (I²·R0 + Σ v_k²/R_k over the pack, shared by S·P cells).
-  double cell_heat_W(const State& x, double current_A) const;
   void operator()(const State& x, State& dxdt, double t) const;
 };
 
