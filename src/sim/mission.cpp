@@ -474,7 +474,8 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
       auto ev = make_events(m, *setup, floor_v);
       ev.resize(kEmpty + 1);  // terminal events only
       SegmentOptions so;
-      so.t_end = t + std::max(10.0 * *m.reserve.hover_s, 600.0);
+      // No end time: the hover or loiter draws power, so the floor, saturation, power collapse
+      // or the empty pack always ends the run; the step cap bounds it.
       so.abs_tol = 1e-9;
       so.rel_tol = 1e-9;
       so.max_steps = opts.max_steps_per_phase;
