@@ -69,6 +69,14 @@ TEST_CASE("fit cell: a synthetic pulse test gives back R0 within 2 % and each ta
         CHECK_MESSAGE(std::fabs(b.tau_s[p] - want) <= 0.10 * want,
                       "tau" << p + 1 << " at SoC " << b.soc << ": " << b.tau_s[p] << " vs " << want);
     }
+    // RC resistances (constant in the model), at every knot, within 10 %: an RC pair's R and τ
+    // trade against each other over a pulse of finite length, so R_k is held as loosely as τ_k.
+    for (int p = 0; p < 2; ++p) {
+      const double want = truth.rc[p].r_ohm(0.5);
+      for (const auto& b : r.bands)
+        CHECK_MESSAGE(std::fabs(b.r_ohm[p] - want) <= 0.10 * want,
+                      "R" << p + 1 << " at SoC " << b.soc << ": " << b.r_ohm[p] << " vs " << want);
+    }
     // OCV wherever the log has data (the fitted SoC 0..1 is where this log's discharge started
     // and ended), every 1 % SoC.
     double worst = 0.0;

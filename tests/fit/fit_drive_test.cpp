@@ -65,6 +65,26 @@ TEST_CASE("fit drive: a synthetic bench test gives Kv back within 1 % and the bu
         if (p.running) CHECK_MESSAGE(std::fabs(p.err_power_pct) <= 2.0, "at " << p.measured.throttle_pct << " %");
       // Static coefficients: CT from thrust and rpm directly, within the 0.5 % + 2·0.3 % noise.
       CHECK(r.drive.prop.ct(0.0) == doctest::Approx(truth.prop.ct(0.0)).epsilon(0.02));
+      // The other parameters (tests/fit/fit_parameters_test.cpp holds each alone, from two bus
+      // voltages). CP within 3 %: torque (1 %) or the power balance, with rpm. Rm within 5 %: the
+      // speed droop under load, rpm to 0.3 %. I0 within 25 %: about 0.8 A under currents to 25 A
+      // read to 0.5 %. P_idle within 5 %: the standing row's current, read to 0.5 %.
+      CHECK(r.drive.prop.cp(0.0) == doctest::Approx(truth.prop.cp(0.0)).epsilon(0.03));
+      CHECK(r.drive.motor.rm_ohm == doctest::Approx(truth.motor.rm_ohm).epsilon(0.05));
+      CHECK(r.drive.motor.i0_A == doctest::Approx(truth.motor.i0_A).epsilon(0.25));
+      CHECK(r.drive.esc.p_idle_W == doctest::Approx(truth.esc.p_idle_W).epsilon(0.05));
+      // At one bus voltage R_on·I² and k_sw·V·I differ only in I against I², and without torque
+      // the motor's I0 takes a share of them too: the fit may put either at its lower bound
+      // (1e-7), and says so (at_bound); otherwise each lies within 4 of its own standard errors.
+      for (const auto& p : r.parameters) {
+        if (p.name != "R_on" && p.name != "k_switch") continue;
+        CAPTURE(p.name);
+        const double want = p.name == "R_on" ? truth.esc.r_on_ohm : truth.esc.k_switch;
+        MESSAGE(p.name << " " << p.value << " (truth " << want << ", s.e. " << 100 * p.se_rel << " %"
+                       << (p.at_bound ? ", at its bound" : "") << ")");
+        if (p.at_bound) CHECK(p.value <= 1e-6);
+        else CHECK(std::fabs(p.value / want - 1.0) <= 4.0 * p.se_rel);
+      }
       MESSAGE("Kv " << r.drive.motor.kv_rpm_per_V << " rpm/V, Rm " << r.drive.motor.rm_ohm << " ohm, I0 "
                     << r.drive.motor.i0_A << " A, R_on " << r.drive.esc.r_on_ohm << ", k_sw " << r.drive.esc.k_switch
                     << ", P_idle " << r.drive.esc.p_idle_W << " W, CP " << r.drive.prop.cp(0.0) << "; RMS power "
