@@ -23,14 +23,15 @@
 #include "io/cell_log_csv.hpp"
 #include "sim/discharge.hpp"
 #include "sim/replay.hpp"
+#include "support/open_data.hpp"
 
 using namespace sortie;
 
 namespace {
 
-const std::string kDir = std::string(SORTIE_SOURCE_DIR) + "/../shared/data/ornl-pouch-33Ah/";
-
-bool have_data() { return std::filesystem::is_regular_file(kDir + "hppc-25C.csv"); }
+// The folder is found when the tests run (tests/support/open_data.hpp: $SORTIE_OPEN_DATA, else
+// ../shared/data beside the repository); absent, the case is reported skipped.
+const std::string kDir = (test::open_data_root() / "ornl-pouch-33Ah").string() + "/";
 
 struct Section {
   std::vector<double> time_s, current_A, voltage_V;  ///< time from one sample before the first row
@@ -74,11 +75,7 @@ struct Check {
 TEST_SUITE("ornl") {
 
 TEST_CASE("ornl: a model fitted on the 25 °C pulse test runs the measured discharges at 1C to 3C") {
-  if (!have_data()) {
-    MESSAGE("open dataset folder missing: " << kDir << " (the ORNL checks need ../shared/data/ornl-pouch-33Ah/)");
-    WARN_MESSAGE(false, "skipped: " << kDir << " is absent");
-    return;
-  }
+  if (!test::open_dataset("ornl-pouch-33Ah", "hppc-25C.csv")) return;
   io::CellLogOptions lo;  // the header names the columns; the current sign is detected
   const fit::CellLog hppc = io::load_cell_log(kDir + "hppc-25C.csv", lo);
   const fit::CellFitResult fit = fit::fit_cell(hppc, fit::CellFitOptions{});
