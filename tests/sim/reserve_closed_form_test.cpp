@@ -35,6 +35,7 @@ struct Setup {
   // Quad: 1.6 kg empty, 0.3 kg payload; 15-inch static prop.
   double empty_kg = 1.6, payload_kg = 0.3, D = 0.381, CT = 0.10, CP = 0.042, kv = 400.0, avionics_W = 8.0;
   double cutoff_V = 3.3;
+  double duty_max = 1.0;
 
   double r0_pack() const { return S * r0_cell; }
   double capacity_C() const { return 3600.0 * q_Ah; }
@@ -58,7 +59,14 @@ struct Setup {
   double F(double e) const {
     const double c2 = 4.0 * r0_pack() * power_W();
     const double root = std::sqrt(e * e - c2);
-    return 0.5 * e * e + 0.5 * (e * root - c2 * std::log(e + root));
+    return 0.5 * e * e + 0.5 * (e * root - (c2 > 0.0 ? c2 * std::log(e + root) : 0.0));
+  }
+  /// Motor voltage of the hover: ω/Kv with Rm = 0, ω = 2π·n (Kv in rad/s/V).
+  double motor_V() const {
+    const double rho = 101325.0 / (287.05287 * 288.15);
+    const double T = (empty_kg + payload_kg + S * cell_kg) * g0 / 4.0;
+    const double n = std::sqrt(T / (CT * rho * std::pow(D, 4)));
+    return 2.0 * 3.14159265358979323846 * n / (kv * 2.0 * 3.14159265358979323846 / 60.0);
   }
   /// Hover time for the pack EMF to fall from e_a to e_b, s.
   double hover_time(double e_a, double e_b) const {
@@ -81,7 +89,7 @@ struct Setup {
     d.esc.r_on_ohm = 0.0;
     d.esc.p_idle_W = 0.0;
     d.esc.k_switch = 0.0;
-    d.esc.duty_max = 1.0;
+    d.esc.duty_max = duty_max;
     d.esc.i_max_A = 1e4;
     battery::Cell c = test::analytic_cell(q_Ah, v0, k, r0_cell);
     c.mass_kg = cell_kg;
@@ -187,6 +195,28 @@ TEST_CASE("spare time: each rule binding alone gives the closed-form time of its
     CHECK(s.spare_s == doctest::Approx(expected).epsilon(0.1 / expected));
     CHECK(s.binding_rule == c.rule);
   }
+}
+
+TEST_CASE("saturation ends the hover where the ESC's highest duty times the sagging bus voltage meets the motor voltage") {
+  // With R0 = 0 the bus is the pack EMF, E = S·(v0 + k·SoC); saturation comes when
+  // d_max·E = V_m (DESIGN.md "Propulsion"), at SoC_sat = (V_m/(d_max·S) − v0)/k, reached after
+  // the closed-form time above (c = 0). A 134 rpm/V motor puts V_m near 22 V on 6S, so the
+  // highest duty 0.98 makes saturation come at SoC ≈ 0.51 instead of ≈ 0.42 at full duty.
+  Setup su;
+  su.r0_cell = 0.0;
+  su.kv = 134.0;
+  su.duty_max = 0.98;
+  sim::Mission m = su.mission(1e5);
+  const auto r = sim::simulate(m);
+  REQUIRE(r.end_kind == "saturation");
+  const double soc_sat = (su.motor_V() / (0.98 * su.S) - su.v0) / su.k;
+  REQUIRE(soc_sat > 0.45);
+  REQUIRE(soc_sat < 0.55);
+  const double t_sat = su.hover_time(su.emf(1.0), su.emf(soc_sat));
+  MESSAGE("V_m " << su.motor_V() << " V, saturation at SoC " << soc_sat << " after " << t_sat << " s; simulated "
+                 << r.flight_time_s << " s");
+  CHECK(r.flight_time_s == doctest::Approx(t_sat).epsilon(1e-6));
+  CHECK(r.landing.soc == doctest::Approx(soc_sat).epsilon(1e-6));
 }
 
 TEST_CASE("a rule met exactly passes — its margin is zero") {
