@@ -148,7 +148,7 @@ TEST_CASE("time on station left at landing: the constant-power discharge integra
 
 TEST_CASE("time on station left at landing is counted to the floor however short the rule (regression: cut at ten times the rule)") {
   // The run after landing stopped at max(10·hover_s, 600 s): with a 30 s rule the JSON said
-  // 600 s were left where the closed form gives 1266 s.
+  // 600 s were left where the closed form gives 1566 s.
   const Setup su;
   const double hover = 300.0;
   sim::Mission m = su.mission(hover);
