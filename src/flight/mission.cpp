@@ -13,4 +13,13 @@ const char* to_string(Phase::Kind k) {
   return "?";
 }
 
+const char* to_string(Phase::Speed s) {
+  switch (s) {
+    case Phase::Speed::given: return "given";
+    case Phase::Speed::best_endurance: return "best_endurance";
+    case Phase::Speed::best_range: return "best_range";
+  }
+  return "?";
+}
+
 }  // namespace sortie::flight

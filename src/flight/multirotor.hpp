@@ -15,17 +15,21 @@
 /// relieves the induced velocity (Glauert's v_i below shows how much), so the axial-table power
 /// tends to be high at moderate forward speed: conservative for endurance.
 ///
+/// The power is not taken from those axial tables at V_n (see flight/rotor_power.hpp): the
+/// induced velocity below feeds a momentum-theory power model calibrated to the drive's own
+/// hover power at the same thrust.
+///
 /// Where this stops being valid:
 /// - Glauert's inflow is for steady flight at moderate speed with uniform inflow; the ideal
 ///   (momentum) power T·(V_n + v_i) is a lower bound; real rotors need more.
-/// - In descent with −2·v_h < V_n < 0 the slipstream flows both ways (vortex-ring and turbulent
-///   wake states); momentum theory has no valid solution there. Such conditions are computed
-///   from the normal-working branch and flagged FlightStatus::vortex_ring. The flag covers the
-///   whole axial band even at forward speed, where edgewise flow sweeps the wake away and the real
-///   region is narrower: it errs toward warning.
+/// - In descent with −2·v_h < V_n < 0 momentum theory has no valid solution (vortex-ring and
+///   turbulent wake states); the inflow there continues the normal-working root from hover. The
+///   vortex-ring warning is not this axial band but the region of descent rate and horizontal
+///   speed in `in_vortex_ring_region`, where forward speed sweeps the wake away.
 /// - Below V_n = −2·v_h (windmill-brake state) the windmill branch is used.
 /// - A descent rate's vertical drag is taken off the thrust; a multirotor cannot descend faster
 ///   than it would fall (refused, FlightStatus::descent_too_fast).
+/// - Download: the rotors give T_z = (W + D_z)/(1 − f), f = download_fraction (airframe.hpp).
 #include <string>
 
 #include "flight/airframe.hpp"
@@ -60,6 +64,15 @@ struct Inflow {
 Inflow glauert_inflow(double thrust_N, double density_kg_m3, double disk_area_m2,
                       double axial_mps, double edgewise_mps);
 
+/// The vortex-ring region used for the warning, in units of the hover induced velocity v_h:
+/// descent rate 0.28·v_h ≤ −V_z ≤ 2·v_h with horizontal airspeed V < v_h. A box around the
+/// region bounded by J. Wolkovitch, "Analytical prediction of vortex-ring boundaries for
+/// helicopters in steep descents", J. American Helicopter Society 17(3), 1972 (the onset near
+/// 0.28·v_h in vertical descent, the far side at the windmill-brake limit 2·v_h, the region
+/// closing as the horizontal speed reaches about v_h; the boundary values from memory). The
+/// box errs toward warning at its corners.
+bool in_vortex_ring_region(double horizontal_mps, double climb_rate_mps, double hover_induced_mps);
+
 /// What a multirotor needs in one steady flight condition.
 struct RotorDemand {
   FlightStatus status = FlightStatus::ok;
@@ -67,6 +80,7 @@ struct RotorDemand {
   double weight_N = 0.0;              ///< m·g0
   double drag_N = 0.0;                ///< horizontal body drag ½·ρ·V²·CdA, N
   double drag_vertical_N = 0.0;       ///< ½·ρ·V_z·|V_z|·CdA_v, N (negative in descent: it holds the frame up)
+  double download_N = 0.0;            ///< rotor download on the frame, f·T_z, N
   double thrust_total_N = 0.0;        ///< all rotors, N
   double thrust_per_rotor_N = 0.0;    ///< N
   double tilt_rad = 0.0;              ///< disk tilt forward from horizontal, α
@@ -83,7 +97,9 @@ struct RotorDemand {
 /// weight and body drag (DESIGN.md "Flight"):
 ///   T_x = D = ½·ρ·V²·CdA,   T_z = W + ½·ρ·V_z·|V_z|·CdA_v,   T = √(T_x² + T_z²),
 ///   α = atan(T_x / T_z)
-/// Level forward flight is T = √(W² + D²), α = atan(D/W); vertical climb T = W + ½·ρ·V_c²·CdA_v.
+/// with T_z raised by the download, T_z = (W + D_z)/(1 − f).
+/// Level forward flight is T = √(W'² + D²), α = atan(D/W'), W' = W/(1 − f); vertical climb
+/// T = (W + ½·ρ·V_c²·CdA_v)/(1 − f).
 RotorDemand multirotor_steady(const Multirotor& frame, double mass_kg, double density_kg_m3,
                               int rotors, double disk_area_m2, double airspeed_mps,
                               double climb_rate_mps);

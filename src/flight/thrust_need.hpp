@@ -19,6 +19,8 @@ struct FlightCondition {
   double climb_rate_mps = 0.0;   ///< vertical rate, climb positive, m/s
   int rotors = 1;                ///< from the drive
   double disk_area_m2 = 0.1;     ///< one rotor, from the drive (disk_area_m2(diameter)), m²
+  double load_factor = 1.0;      ///< fixed wing: n = 1/cos φ of a coordinated turn
+  bool drag_device = false;      ///< fixed wing: a descent steeper than the idle glide is allowed
 };
 
 struct ThrustNeed {
