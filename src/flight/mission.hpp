@@ -38,6 +38,10 @@ struct Phase {
 
 const char* to_string(Phase::Speed s);
 
+/// Load factor n = 1/cos φ of a phase's coordinated turn at airspeed V: φ from bank_deg, or for
+/// a turn radius r, φ = atan(V²/(g·r)) (r = V²/(g·tan φ)); 1 when it flies straight.
+double turn_load_factor(const Phase& p, double airspeed_mps);
+
 const char* to_string(Phase::Kind k);
 
 /// Reserve rules; an absent rule is not checked.

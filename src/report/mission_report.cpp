@@ -195,7 +195,8 @@ nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim
                       {"v_min_cell_V", p.v_min_cell_V}, {"i_max_A", p.i_max_A}, {"c_rate_max", p.c_rate_max},
                       {"duty_mean", p.duty_mean}, {"duty_max", p.duty_max}, {"eta_mean", p.eta_mean},
                       {"thrust_per_rotor_N", p.thrust_per_rotor_N}, {"density_kg_m3", p.density_kg_m3},
-                      {"ground_speed_mps", p.ground_speed_mps}});
+                      {"ground_speed_mps", p.ground_speed_mps},
+                      {"airspeed_mps", p.airspeed_mps}});
   }
   j["phases"] = phases;
   json ev = json::array();

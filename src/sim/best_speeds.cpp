@@ -42,30 +42,34 @@ double golden_min(F f, double a, double b) {
 }
 
 /// The grid minimum of g over the feasible points, refined between its neighbours.
-/// `on_bound`: the minimum is at the first or last feasible point.
+/// `on_bound`: the refined minimum sits on the first or last feasible point (within 2 mm/s).
 double refine(const std::vector<double>& vs, const std::vector<double>& gs, const std::function<double(double)>& g,
               bool& on_bound) {
   std::size_t k = 0;
   for (std::size_t j = 1; j < gs.size(); ++j)
     if (gs[j] < gs[k]) k = j;
-  on_bound = k == 0 || k + 1 == gs.size();
-  if (gs.size() < 3) return vs[k];
-  const double a = vs[k == 0 ? 0 : k - 1], b = vs[k + 1 == gs.size() ? k : k + 1];
-  const double v = golden_min(g, a, b);
-  // On a bound the refinement may still move inside the first interval; keep what is lower.
-  return g(v) < gs[k] ? v : vs[k];
+  double v = vs[k];
+  if (gs.size() >= 2) {
+    const double a = vs[k == 0 ? 0 : k - 1], b = vs[k + 1 == gs.size() ? k : k + 1];
+    const double r = golden_min(g, a, b);
+    // On a bound the refinement may still move inside the first interval; keep what is lower.
+    if (g(r) < gs[k]) v = r;
+  }
+  on_bound = v - vs.front() < 2 * kSpeedTol || vs.back() - v < 2 * kSpeedTol;
+  return v;
 }
 
 }  // namespace
 
 std::optional<double> level_bus_power_W(const Mission& m, double mass_kg, double rho, double v_bus_V,
-                                        double airspeed_mps) {
+                                        double airspeed_mps, const flight::Phase* turn) {
   flight::FlightCondition c;
   c.mass_kg = mass_kg;
   c.density_kg_m3 = rho;
   c.airspeed_mps = airspeed_mps;
   c.rotors = m.drive.rotors;
   c.disk_area_m2 = m.drive.prop.disc_area_m2();
+  if (turn) c.load_factor = flight::turn_load_factor(*turn, airspeed_mps);
   const auto need = flight::thrust_need(m.airframe, c);
   if (flight::refused(need.status)) return std::nullopt;
   const DriveSolve ds = solve_drive(m, need, rho);
@@ -74,7 +78,8 @@ std::optional<double> level_bus_power_W(const Mission& m, double mass_kg, double
   return m.drive.rotors * propulsion::bus_load(m.drive, ds.motor).power_W(v_bus_V) + m.avionics_W;
 }
 
-BestSpeeds best_speeds(const Mission& m, double height_m, double head_mps, double cross_mps) {
+BestSpeeds best_speeds(const Mission& m, double height_m, double head_mps, double cross_mps,
+                       const flight::Phase* turn) {
   BestSpeeds b;
   b.mass_kg = flight::all_up_mass_kg(m.airframe, m.pack.mass_kg());
   b.head_mps = head_mps;
@@ -93,13 +98,14 @@ BestSpeeds best_speeds(const Mission& m, double height_m, double head_mps, doubl
     b.search_lo_mps = 0.0;
     b.lower_bound = "hover";
   }
-  auto power = [&](double v) { return level_bus_power_W(m, b.mass_kg, b.density_kg_m3, b.v_bus_V, v); };
+  auto power = [&](double v) { return level_bus_power_W(m, b.mass_kg, b.density_kg_m3, b.v_bus_V, v, turn); };
   std::vector<double> vs, ps;
   b.upper_bound = "the search limit " + format_fixed(kSearchMax, 0) + " m/s";
   for (int k = 0;; ++k) {
     const double v = b.search_lo_mps + k * kGridStep;
     if (v > kSearchMax) break;
     const auto p = power(v);
+    if (!p && vs.empty()) continue;  // still below the speeds the airframe accepts (a turn's margin)
     if (!p) {
       b.upper_bound = "the drive cannot hold level flight at " + format_fixed(v, 1) + " m/s";
       break;
@@ -111,6 +117,7 @@ BestSpeeds best_speeds(const Mission& m, double height_m, double head_mps, doubl
     b.note = "no airspeed from " + format_fixed(b.search_lo_mps, 1) + " m/s can be flown level";
     return b;
   }
+  b.search_lo_mps = vs.front();
   b.search_hi_mps = vs.back();
   b.found = true;
   // Outside the feasible grid the power is taken as infinite, so the refinement stays inside.
@@ -156,7 +163,8 @@ double phase_airspeed_mps(const Mission& m, std::size_t i) {
     head = wc.head_mps;
     cross = wc.cross_mps;
   }
-  const BestSpeeds b = best_speeds(m, h, head, cross);
+  const bool turns = p.bank_deg > 0.0 || p.turn_radius_m.has_value();
+  const BestSpeeds b = best_speeds(m, h, head, cross, turns ? &p : nullptr);
   if (!b.found) return 0.0;
   return p.airspeed_choice == Phase::Speed::best_endurance ? b.endurance_mps : b.range_mps;
 }

@@ -23,6 +23,8 @@
 #include <optional>
 #include <string>
 
+#include "flight/mission.hpp"
+
 namespace sortie::sim {
 
 struct Mission;
@@ -51,12 +53,16 @@ struct BestSpeeds {
 
 /// Level-flight bus power of the whole aircraft at airspeed V, W: N·P_bus(V_bus) + avionics;
 /// nullopt when the airframe refuses V, the drive has no point, or it saturates at v_bus.
+/// `turn`: a phase whose bank or turn radius is flown (fixed wing), nullptr for straight flight.
 std::optional<double> level_bus_power_W(const Mission& m, double mass_kg, double rho, double v_bus_V,
-                                        double airspeed_mps);
+                                        double airspeed_mps, const flight::Phase* turn = nullptr);
 
 /// Best speeds at the mission's all-up mass in the air at `height_m` above the field, for a
-/// wind of head `head_mps` and cross `cross_mps` components (range only).
-BestSpeeds best_speeds(const Mission& m, double height_m = 0.0, double head_mps = 0.0, double cross_mps = 0.0);
+/// wind of head `head_mps` and cross `cross_mps` components (range only), flying the turn of
+/// `turn` (nullptr: straight). Speeds below the lowest the airframe accepts (the stall margin,
+/// in a turn V_s·√n) are skipped; the search starts at the first it accepts.
+BestSpeeds best_speeds(const Mission& m, double height_m = 0.0, double head_mps = 0.0, double cross_mps = 0.0,
+                       const flight::Phase* turn = nullptr);
 
 /// The airspeed phase `i` flies: its number, or the best speed its keyword names, solved at the
 /// phase's height for its track's wind (a loiter circles: calm-air range), m/s.

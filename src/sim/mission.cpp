@@ -4,7 +4,6 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
-#include <numbers>
 
 #include "core/error.hpp"
 #include "core/roots.hpp"
@@ -53,14 +52,6 @@ double phase_airspeed(const Mission& m, const Phase& p) {
                                p.airspeed_mps <= 0.0);
   if (is_multirotor(m.airframe) && holds_position) return m.environment.wind.speed_mps;
   return p.airspeed_mps;
-}
-
-/// Load factor n = 1/cos φ of a phase's coordinated turn, φ from bank_deg or, for a turn radius
-/// r, φ = atan(V²/(g·r)); 1 when it flies straight.
-double load_factor(const Phase& p, double airspeed_mps) {
-  double bank = p.bank_deg * std::numbers::pi / 180.0;
-  if (p.turn_radius_m) bank = flight::bank_for_radius_rad(airspeed_mps, *p.turn_radius_m);
-  return 1.0 / std::cos(bank);
 }
 
 double vertical_rate(const Phase& p) {
@@ -127,7 +118,7 @@ std::optional<SegmentSetup> setup_stretch(const Mission& m, const Phase& p, doub
   c.climb_rate_mps = vertical_rate(p);
   c.rotors = m.drive.rotors;
   c.disk_area_m2 = m.drive.prop.disc_area_m2();
-  c.load_factor = load_factor(p, c.airspeed_mps);
+  c.load_factor = flight::turn_load_factor(p, c.airspeed_mps);
   c.drag_device = p.drag_device;
   const auto need = flight::thrust_need(m.airframe, c);
   if (flight::refused(need.status)) {
