@@ -40,6 +40,35 @@ TEST_CASE("multirotor: the drive is solved at the thrust whose static shaft powe
   }
 }
 
+TEST_CASE("multirotor: a descent fast enough that the air would drive the rotors is refused") {
+  // Windmill-brake state (Leishman 2006, ch. 2): below V_n = −2·v_h the ideal power T·(V_n + v_i)
+  // is negative; once it outweighs the profile power the rotor would give power, which the ESC
+  // cannot take back: no powered operating point, refused naming the descent rate.
+  const auto lp = io::load_profile_file(test::source_path("profiles/demo-quad-water-tank.json"));
+  const sim::Mission& m = lp.mission;
+  const double mass = flight::all_up_mass_kg(m.airframe, m.pack.mass_kg()), rho = 1.18;
+  flight::FlightCondition c;
+  c.mass_kg = mass;
+  c.density_kg_m3 = rho;
+  c.rotors = m.drive.rotors;
+  c.disk_area_m2 = m.drive.prop.disc_area_m2();
+  c.climb_rate_mps = 0.0;
+  const auto hover = flight::thrust_need(m.airframe, c);
+  const double vh = std::get<flight::RotorDemand>(hover.demand).hover_induced_mps;
+  c.climb_rate_mps = -3.0 * vh;
+  const auto need = flight::thrust_need(m.airframe, c);
+  REQUIRE_FALSE(flight::refused(need.status));
+  const sim::DriveSolve ds = sim::solve_drive(m, need, rho);
+  CHECK_FALSE(ds.ok);
+  CHECK(ds.field == "rate_mps");
+  CHECK(ds.why.find("windmill-brake") != std::string::npos);
+  REQUIRE(ds.rotor_power);
+  CHECK(ds.rotor_power->shaft_W <= 0.0);
+  // A slow descent is powered.
+  c.climb_rate_mps = -0.2 * vh;
+  CHECK(sim::solve_drive(m, flight::thrust_need(m.airframe, c), rho).ok);
+}
+
 TEST_CASE("fixed wing: an advance ratio outside the prop tables is a warning naming the value and the range") {
   const auto lp = io::load_profile_file(test::source_path("profiles/demo-fixed-wing-field-survey.json"));
   // The demo pusher's tables cut at J = 0.4, where CT is still well above zero, so that fast
