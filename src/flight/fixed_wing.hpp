@@ -57,7 +57,7 @@ struct WingDemand {
   double cd = 0.0;
   double lift_N = 0.0;
   double drag_N = 0.0;
-  double thrust_N = 0.0;           ///< D + W·sin γ, or 0 when that is ≤ 0 (no_thrust_needed)
+  double thrust_N = 0.0;           ///< D + W·sin γ, or 0 when that is ≤ 0 with a drag device (no_thrust_needed)
   double power_required_W = 0.0;   ///< T·V, W
   double lift_to_drag = 0.0;
   double stall_speed_mps = 0.0;    ///< level-flight V_s at this mass and density

@@ -6,18 +6,13 @@
 /// Frame: the rotors share one disk plane, tilted forward by α from horizontal, and share the
 /// thrust equally (a symmetric, trimmed frame; rotor-to-rotor interference is not modelled).
 ///
-/// Which axial speed the propulsion layer gets: `axial_mps`, the free-stream component along
-/// the rotor axis, positive when the air enters the disk from above (as in a climb):
-///   V_n = V·sin α + V_z·cos α         (V horizontal airspeed, V_z climb rate)
-/// The propeller tables CT(J), CP(J) are axial-flow data with J = V_axial/(n·D), and they already
-/// hold the propeller's own induced flow, so the induced velocity is NOT added to it. The
-/// edgewise component V_e = V·cos α − V_z·sin α is not seen by those tables. Edgewise flow
-/// relieves the induced velocity (Glauert's v_i below shows how much), so the axial-table power
-/// tends to be high at moderate forward speed: conservative for endurance.
-///
-/// The power is not taken from those axial tables at V_n (see flight/rotor_power.hpp): the
-/// induced velocity below feeds a momentum-theory power model calibrated to the drive's own
-/// hover power at the same thrust.
+/// The free stream in disc axes: `axial_mps`, the component along the rotor axis, positive when
+/// the air enters the disc from above (as in a climb), and `edgewise_mps`, along the disc:
+///   V_n = V·sin α + V_z·cos α,   V_e = V·cos α − V_z·sin α   (V horizontal airspeed, V_z climb rate)
+/// The propeller tables CT(J), CP(J) are axial-flow data and do not see V_e, so a multirotor's
+/// power is not read from them at V_n: V_n, V_e and Glauert's v_i below feed the momentum-theory
+/// power of flight/rotor_power.hpp, calibrated to the drive's own hover power at the same
+/// thrust, and the drive is solved at its static-equivalent thrust (sim/drive_solve.hpp).
 ///
 /// Where this stops being valid:
 /// - Glauert's inflow is for steady flight at moderate speed with uniform inflow; the ideal
@@ -39,7 +34,7 @@ namespace sortie::flight {
 
 /// Which momentum-theory branch the rotor flow is on.
 enum class RotorFlow {
-  normal_working,  ///< V_n ≥ 0: hover, climb, forward flight (or, flagged, the vortex-ring band)
+  normal_working,  ///< V_n ≥ 0: hover, climb, forward flight (and the root continued from hover below 0)
   vortex_ring,     ///< −2·v_h < V_n < 0: no valid momentum solution; estimate
   windmill_brake,  ///< V_n ≤ −2·v_h: the air goes up through the disk
 };
@@ -84,7 +79,7 @@ struct RotorDemand {
   double thrust_total_N = 0.0;        ///< all rotors, N
   double thrust_per_rotor_N = 0.0;    ///< N
   double tilt_rad = 0.0;              ///< disk tilt forward from horizontal, α
-  double axial_mps = 0.0;             ///< V_n: the speed for the propeller's advance ratio, m/s
+  double axial_mps = 0.0;             ///< V_n, the free stream through the disc, m/s
   double edgewise_mps = 0.0;          ///< V_e, m/s
   double hover_induced_mps = 0.0;     ///< v_h at this rotor thrust, m/s
   double induced_mps = 0.0;           ///< Glauert v_i, m/s
