@@ -96,4 +96,21 @@ TEST_CASE("fly: a banked loiter costs more than a straight one and turn keys are
   CHECK(mr.err.find("/phases/4/bank_deg") != std::string::npos);
 }
 
+TEST_CASE("fly: a turn given twice and a download fraction out of range are refused with their pointers") {
+  json p = demo("demo-fixed-wing-field-survey.json");
+  p["phases"][13]["bank_deg"] = 20;  // besides its turn_radius_m
+  const auto both = run_sortie({"fly", write_profile("turn-twice", p)});
+  CHECK(both.exit_code == 1);
+  CHECK(both.err.find("/phases/13/turn_radius_m") != std::string::npos);
+  CHECK(both.err.find("bank_deg or turn_radius_m, one of them") != std::string::npos);
+  json q = demo("demo-quad-water-tank.json");
+  json frame = json::parse(read_file(source_path("models/airframes/demo-quad-15in-inspection.json")));
+  frame["download_fraction"] = 0.7;
+  q["airframe"] = frame;
+  const auto dl = run_sortie({"fly", write_profile("download", q)});
+  CHECK(dl.exit_code == 1);
+  CHECK(dl.err.find("/airframe/download_fraction") != std::string::npos);
+  CHECK(dl.err.find("0.7") != std::string::npos);
+}
+
 }  // TEST_SUITE
