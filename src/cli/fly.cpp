@@ -10,6 +10,7 @@
 #include "report/html_fly.hpp"
 #include "report/mission_report.hpp"
 #include "report/result_csv.hpp"
+#include "sim/best_speeds.hpp"
 #include "sim/mission.hpp"
 
 namespace sortie::cli {
@@ -28,8 +29,11 @@ int run_fly(const FlyOptions& o) {
   const io::LoadedProfile lp = io::load_profile_file(o.profile, o.pack);
   sim::SimOptions so;
   so.sample_s = o.trace_file.empty() && o.report.html_file.empty() ? 0.0 : o.sample_s;
-  const sim::MissionResult r = sim::simulate(lp.mission, so);
+  sim::MissionResult r = sim::simulate(lp.mission, so);
   if (r.refused) throw InputError(io::refusal_message(lp, r));
+  r.best_speeds = sim::best_speeds(lp.mission);
+  if (lp.mission.environment.wind.speed_mps > 0.0)
+    r.best_speeds_headwind = sim::best_speeds(lp.mission, 0.0, lp.mission.environment.wind.speed_mps, 0.0);
   const sim::SpareResult spare = sim::solve_spare(lp.mission, r);
   // Every output is made before the first is written.
   const std::string html = o.report.html_file.empty() ? "" : report::fly_html(lp.mission, r, spare);

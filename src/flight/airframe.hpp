@@ -15,6 +15,19 @@ struct Multirotor {
   /// Drag area for vertical climb and descent, m². Defaults to cda_m2 when not given; the
   /// frame's top view is usually larger than its front view, so give it when it is known.
   double cda_vertical_m2 = 0.05;
+  /// Rotor download on the frame: the part of the rotors' thrust the wake pushes back down on
+  /// the arms and body, as a fraction of the thrust (0 ≤ f < 0.5). Common practice puts it at a
+  /// few percent for an open multirotor frame; 0.03 unless given. Held at every airspeed (the
+  /// wake sweeps back off the frame in fast forward flight, so this errs toward more power).
+  double download_fraction = 0.03;
+  /// Induced-power factor κ of the rotors, P_i = κ·T·v_i: the excess of a real rotor's induced
+  /// power over the ideal, from non-uniform inflow and tip losses. 1.15 is the usual value
+  /// (J. G. Leishman, Principles of Helicopter Aerodynamics, 2nd ed., 2006, ch. 2 and 5; from
+  /// memory).
+  double induced_power_factor = 1.15;
+  /// K in the profile power's growth with advance ratio, P0(μ) = P0·(1 + K·μ²); 4.65
+  /// (Leishman 2006, ch. 5, forward-flight power; from memory). Some texts use 4.7 or 3.
+  double profile_power_k = 4.65;
 };
 
 /// A fixed-wing aircraft with a parabolic drag polar CD = CD0 + CL²/(π·e·AR).

@@ -14,6 +14,11 @@
 
 namespace sortie::flight {
 
+/// The stall-speed margin: a phase must fly at least this many times the stall speed in its
+/// condition (V_s·√n in a turn). 1.2·V_s is common practice for planning (approach and loiter
+/// margins of 1.2–1.3·V_s); below it a gust or a steeper bank stalls the wing.
+inline constexpr double kStallMargin = 1.2;
+
 /// Induced-drag factor K = 1/(π·e·AR).
 double induced_drag_factor(const FixedWing& wing);
 
@@ -52,17 +57,35 @@ struct WingDemand {
   double cd = 0.0;
   double lift_N = 0.0;
   double drag_N = 0.0;
-  double thrust_N = 0.0;           ///< D + W·sin γ, or 0 when that is ≤ 0 (no_thrust_needed)
+  double thrust_N = 0.0;           ///< D + W·sin γ, or 0 when that is ≤ 0 with a drag device (no_thrust_needed)
   double power_required_W = 0.0;   ///< T·V, W
   double lift_to_drag = 0.0;
   double stall_speed_mps = 0.0;    ///< level-flight V_s at this mass and density
+  double load_factor = 1.0;        ///< n = 1/cos φ in a coordinated turn
+  double stall_speed_turn_mps = 0.0;  ///< V_s·√n
+  double glide_angle_rad = 0.0;    ///< idle glide angle at this airspeed (set when it matters)
   double axial_mps = 0.0;          ///< the propeller's axial speed: the airspeed V, m/s
 };
 
-/// Steady flight at true airspeed V along a path climbing at `climb_rate_mps` (negative sinks).
-/// Refused: V ≤ 0 or CL > cl_max (below_stall, naming the stall speed), |V_z| ≥ V
-/// (climb_too_steep).
+/// Steady flight at true airspeed V along a path climbing at `climb_rate_mps` (negative sinks),
+/// in a coordinated turn of load factor n = 1/cos φ (1: straight):
+///   L = n·W·cos γ, so the induced drag grows with n² at the same airspeed.
+/// Refused: V ≤ 0 or CL > cl_max (below_stall, naming the stall speed), V below kStallMargin ×
+/// V_s·√n (stall_margin), |V_z| ≥ V (climb_too_steep), a descent steeper than the idle glide
+/// (steeper_than_glide, naming both angles) unless `drag_device`, when the thrust is 0 and the
+/// status no_thrust_needed. The thrust, and so the shaft power, is never negative.
 WingDemand fixed_wing_steady(const FixedWing& wing, double mass_kg, double density_kg_m3,
-                             double airspeed_mps, double climb_rate_mps);
+                             double airspeed_mps, double climb_rate_mps, double load_factor = 1.0,
+                             bool drag_device = false);
+
+/// Idle glide angle at airspeed V and load factor n: γ_g > 0 with W·sin γ_g = D(L = n·W·cos γ_g),
+/// by fixed-point iteration (a contraction: D changes little with cos γ), rad.
+double glide_angle_rad(const FixedWing& wing, double mass_kg, double density_kg_m3, double airspeed_mps,
+                       double load_factor = 1.0);
+
+/// Turn radius of a coordinated level turn r = V²/(g·tan φ), m, and its inverse
+/// φ = atan(V²/(g·r)), rad.
+double turn_radius_m(double airspeed_mps, double bank_rad);
+double bank_for_radius_rad(double airspeed_mps, double radius_m);
 
 }  // namespace sortie::flight

@@ -5,12 +5,19 @@ namespace sortie::flight {
 
 enum class FlightStatus {
   ok,
-  /// Warning: a multirotor descending through its own wake (−2·v_h < axial speed < 0). Momentum
-  /// theory does not hold there; the induced velocity is an estimate, the real flow unsteady.
+  /// Warning: a multirotor descending into its own wake (the descent rate and horizontal speed
+  /// of flight::in_vortex_ring_region). Momentum theory does not hold there; the induced
+  /// velocity is an estimate, the real flow unsteady.
   vortex_ring,
-  /// Note: a fixed wing descending more steeply than it glides at this airspeed; the thrust
-  /// needed came out ≤ 0 and is reported as 0 (idle).
+  /// Note: a fixed wing descending more steeply than it glides at idle, with a drag device (the
+  /// phase says "drag_device": true) taking the excess; the thrust is 0 (idle).
   no_thrust_needed,
+  /// Refused: a fixed wing asked to descend more steeply than its idle glide at this airspeed,
+  /// with no drag device; the energy would have to go somewhere the model does not have.
+  steeper_than_glide,
+  /// Refused: the airspeed is below the stall-speed margin (kStallMargin × the stall speed in
+  /// the turn, V_s·√n).
+  stall_margin,
   /// Refused: the lift coefficient needed is above cl_max (or the airspeed is 0).
   below_stall,
   /// Refused: a fixed wing asked to climb or sink at least as fast as it flies.
@@ -22,7 +29,8 @@ enum class FlightStatus {
 /// True for the statuses that give no usable flight condition.
 constexpr bool refused(FlightStatus s) {
   return s == FlightStatus::below_stall || s == FlightStatus::climb_too_steep ||
-         s == FlightStatus::descent_too_fast;
+         s == FlightStatus::descent_too_fast || s == FlightStatus::steeper_than_glide ||
+         s == FlightStatus::stall_margin;
 }
 
 constexpr const char* to_string(FlightStatus s) {
@@ -33,6 +41,8 @@ constexpr const char* to_string(FlightStatus s) {
     case FlightStatus::below_stall: return "below_stall";
     case FlightStatus::climb_too_steep: return "climb_too_steep";
     case FlightStatus::descent_too_fast: return "descent_too_fast";
+    case FlightStatus::steeper_than_glide: return "steeper_than_glide";
+    case FlightStatus::stall_margin: return "stall_margin";
   }
   return "?";
 }

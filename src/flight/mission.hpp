@@ -13,6 +13,10 @@ namespace sortie::flight {
 ///   cruise:          distance_m over the ground (or duration_s) at airspeed_mps on track_deg
 ///   hover:           duration_s (multirotor only)
 ///   loiter:          duration_s at airspeed_mps (circling: no net wind drift)
+/// Cruise and loiter may give their airspeed as a keyword (best_endurance, best_range: solved by
+/// sim/best_speeds.hpp for the mission's airframe, drive and pack) and, for a fixed wing, a
+/// bank angle or turn radius (a coordinated level turn). A fixed-wing descent steeper than the
+/// idle glide needs drag_device.
 struct Phase {
   enum class Kind { climb, cruise, hover, loiter, descend };
   Kind kind = Kind::hover;
@@ -24,7 +28,19 @@ struct Phase {
   double airspeed_mps = 0.0;           ///< true airspeed, m/s
   double track_deg = 0.0;              ///< ground track, degrees true
   bool spare = false;                  ///< the phase the spare-time solve lengthens
+  /// Where the airspeed comes from: the number airspeed_mps, or a best speed solved for it.
+  enum class Speed { given, best_endurance, best_range };
+  Speed airspeed_choice = Speed::given;
+  double bank_deg = 0.0;               ///< bank angle of a coordinated turn, degrees (fixed wing)
+  std::optional<double> turn_radius_m; ///< or the turn's radius, m (fixed wing)
+  bool drag_device = false;            ///< a fixed-wing descent may be steeper than the idle glide
 };
+
+const char* to_string(Phase::Speed s);
+
+/// Load factor n = 1/cos φ of a phase's coordinated turn at airspeed V: φ from bank_deg, or for
+/// a turn radius r, φ = atan(V²/(g·r)) (r = V²/(g·tan φ)); 1 when it flies straight.
+double turn_load_factor(const Phase& p, double airspeed_mps);
 
 const char* to_string(Phase::Kind k);
 

@@ -63,6 +63,13 @@ Inflow glauert_inflow(double thrust_N, double density_kg_m3, double disk_area_m2
   return Inflow{*x * vh, flow};
 }
 
+bool in_vortex_ring_region(double horizontal_mps, double climb_rate_mps, double hover_induced_mps) {
+  // Normalised descent rate z = −V_z/v_h and horizontal speed x = V/v_h (Wolkovitch 1972 box,
+  // see the header).
+  const double z = -climb_rate_mps / hover_induced_mps, x = horizontal_mps / hover_induced_mps;
+  return z >= 0.28 && z <= 2.0 && x < 1.0;
+}
+
 RotorDemand multirotor_steady(const Multirotor& frame, double mass_kg, double density_kg_m3,
                               int rotors, double disk_area_m2, double airspeed_mps,
                               double climb_rate_mps) {
@@ -75,14 +82,18 @@ RotorDemand multirotor_steady(const Multirotor& frame, double mass_kg, double de
   d.drag_N = 0.5 * rho * V * V * frame.cda_m2;
   d.drag_vertical_N = 0.5 * rho * Vz * std::fabs(Vz) * frame.cda_vertical_m2;
   const double tx = d.drag_N;
-  const double tz = d.weight_N + d.drag_vertical_N;
-  if (!(tz > 0.0)) {
+  const double tz_net = d.weight_N + d.drag_vertical_N;
+  if (!(tz_net > 0.0)) {
     d.status = FlightStatus::descent_too_fast;
     d.detail = "descent at " + format_fixed(-Vz, 2) + " m/s: vertical drag " + format_fixed(-d.drag_vertical_N, 2) +
                " N is above the weight " + format_fixed(d.weight_N, 2) +
                " N (the frame would fall slower than that)";
     return d;
   }
+  // The wake pushes f of the rotors' vertical thrust back down on the frame:
+  // T_z·(1 − f) = W + D_z.
+  const double tz = tz_net / (1.0 - frame.download_fraction);
+  d.download_N = tz - tz_net;
   // Thrust balances weight plus drag: T = √(T_x² + T_z²), tilted forward by α = atan(T_x/T_z).
   d.thrust_total_N = std::hypot(tx, tz);
   d.thrust_per_rotor_N = d.thrust_total_N / rotors;
@@ -99,12 +110,15 @@ RotorDemand multirotor_steady(const Multirotor& frame, double mass_kg, double de
   d.flow = in.flow;
   // Ideal power of one rotor, momentum theory: P = T·(V_n + v_i) (Leishman 2006, ch. 2 and 5).
   d.ideal_power_per_rotor_W = d.thrust_per_rotor_N * (d.axial_mps + d.induced_mps);
-  if (in.flow == RotorFlow::vortex_ring) {
+  if (in_vortex_ring_region(V, Vz, d.hover_induced_mps)) {
+    const double vh = d.hover_induced_mps;
     d.status = FlightStatus::vortex_ring;
-    d.detail = "axial inflow " + format_fixed(d.axial_mps, 2) + " m/s is inside the vortex-ring band (" +
-               format_fixed(-2.0 * d.hover_induced_mps, 2) +
-               " to 0 m/s, from twice the hover induced velocity): momentum theory does not hold, "
-               "the power estimate is uncertain and the rotor may lose thrust";
+    d.detail = "descent at " + format_fixed(-Vz, 2) + " m/s with airspeed " + format_fixed(V, 2) +
+               " m/s is inside the vortex-ring region (descent " + format_fixed(0.28 * vh, 2) + " to " +
+               format_fixed(2.0 * vh, 2) + " m/s below an airspeed of " + format_fixed(vh, 2) +
+               " m/s, from the hover induced velocity): momentum theory does not hold, "
+               "the power estimate is uncertain and the rotor may lose thrust; descend slower or "
+               "with forward speed";
   }
   return d;
 }

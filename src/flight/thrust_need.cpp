@@ -18,7 +18,7 @@ ThrustNeed thrust_need(const Airframe& airframe, const FlightCondition& c) {
     n.demand = std::move(d);
   } else {
     WingDemand d = fixed_wing_steady(std::get<FixedWing>(airframe), c.mass_kg, c.density_kg_m3,
-                                     c.airspeed_mps, c.climb_rate_mps);
+                                     c.airspeed_mps, c.climb_rate_mps, c.load_factor, c.drag_device);
     n.status = d.status;
     n.detail = d.detail;
     n.thrust_total_N = d.thrust_N;

@@ -1,6 +1,6 @@
 #pragma once
-/// One entry point over either airframe: the thrust each rotor must give, and the axial speed
-/// the propulsion layer should see, in one steady flight condition.
+/// One entry point over either airframe: the thrust each rotor must give and the free stream
+/// through its disc in one steady flight condition (sim/drive_solve.hpp hands it to the drive).
 #include <string>
 #include <variant>
 
@@ -19,6 +19,8 @@ struct FlightCondition {
   double climb_rate_mps = 0.0;   ///< vertical rate, climb positive, m/s
   int rotors = 1;                ///< from the drive
   double disk_area_m2 = 0.1;     ///< one rotor, from the drive (disk_area_m2(diameter)), m²
+  double load_factor = 1.0;      ///< fixed wing: n = 1/cos φ of a coordinated turn
+  bool drag_device = false;      ///< fixed wing: a descent steeper than the idle glide is allowed
 };
 
 struct ThrustNeed {
@@ -26,7 +28,7 @@ struct ThrustNeed {
   std::string detail;              ///< warning or refusal with numbers; empty when ok
   double thrust_total_N = 0.0;
   double thrust_per_rotor_N = 0.0;
-  double axial_mps = 0.0;          ///< speed along the rotor axis for the advance ratio J, m/s
+  double axial_mps = 0.0;          ///< free stream along the rotor axis (fixed wing: the prop's J speed), m/s
   std::variant<RotorDemand, WingDemand> demand;  ///< everything the airframe model worked out
 };
 

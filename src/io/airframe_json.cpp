@@ -11,7 +11,8 @@ namespace sortie::io {
 namespace {
 
 const std::vector<std::string> kMultirotorKeys = {"mass_empty_kg", "payload_kg", "cda_m2",
-                                                  "cda_vertical_m2"};
+                                                  "cda_vertical_m2", "download_fraction",
+                                                  "induced_power_factor", "profile_power_k"};
 const std::vector<std::string> kFixedWingKeys = {"mass_empty_kg", "payload_kg", "wing_area_m2",
                                                  "cd0", "aspect_ratio", "oswald_e", "cl_max"};
 
@@ -48,6 +49,9 @@ flight::Multirotor read_multirotor(ObjectReader& r, std::string name) {
   m.payload_kg = r.number_or("payload_kg", 0.0, kPayload);
   m.cda_m2 = r.number("cda_m2", kDragArea);
   m.cda_vertical_m2 = r.number_or("cda_vertical_m2", m.cda_m2, kDragArea);
+  m.download_fraction = r.number_or("download_fraction", m.download_fraction, between(0.0, 0.5, ""));
+  m.induced_power_factor = r.number_or("induced_power_factor", m.induced_power_factor, between(1.0, 2.0, ""));
+  m.profile_power_k = r.number_or("profile_power_k", m.profile_power_k, between(0.0, 10.0, ""));
   return m;
 }
 

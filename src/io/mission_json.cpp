@@ -6,6 +6,28 @@ namespace sortie::io {
 
 using flight::Phase;
 
+namespace {
+
+/// airspeed_mps as a number, or one of the best-speed keywords (sim/best_speeds.hpp).
+void read_airspeed(ObjectReader& r, Phase& p, const Range& speed) {
+  if (r.has("airspeed_mps") && r.json()["airspeed_mps"].is_string()) {
+    const std::string k = r.choice("airspeed_mps", {"best_endurance", "best_range"}, "");
+    p.airspeed_choice = k == "best_endurance" ? Phase::Speed::best_endurance : Phase::Speed::best_range;
+    return;
+  }
+  p.airspeed_mps = r.number("airspeed_mps", speed);
+}
+
+/// A coordinated turn: bank_deg or turn_radius_m, not both.
+void read_turn(ObjectReader& r, Phase& p) {
+  p.bank_deg = r.number_or("bank_deg", 0.0, between(0.0, 75.0, "deg"));
+  p.turn_radius_m = r.optional_number("turn_radius_m", above_to(0.0, 1e5, "m"));
+  if (p.turn_radius_m && p.bank_deg > 0.0)
+    r.fail("turn_radius_m", "a turn is given by bank_deg or turn_radius_m, one of them");
+}
+
+}  // namespace
+
 flight::Phase read_phase(ObjectReader& r) {
   Phase p;
   const std::string kind = r.choice("kind", {"climb", "cruise", "hover", "loiter", "descend"}, "");
@@ -19,21 +41,24 @@ flight::Phase read_phase(ObjectReader& r) {
     p.rate_mps = r.number("rate_mps", above_to(0.0, 30.0, "m/s"));
     p.airspeed_mps = r.number_or("airspeed_mps", 0.0, between(0.0, 150.0, "m/s"));
     p.track_deg = r.number_or("track_deg", 0.0, between(0.0, 360.0, "deg"));
+    if (kind == "descend") p.drag_device = r.boolean_or("drag_device", false);
   } else if (kind == "cruise") {
     p.kind = Phase::Kind::cruise;
     p.distance_m = r.optional_number("distance_m", above_to(0.0, 1e7, "m"));
     p.duration_s = r.optional_number("duration_s", above_to(0.0, 1e6, "s"));
     if (p.distance_m.has_value() == p.duration_s.has_value())
       r.fail("distance_m", "a cruise needs distance_m or duration_s, one of them");
-    p.airspeed_mps = r.number("airspeed_mps", speed);
+    read_airspeed(r, p, speed);
     p.track_deg = r.number_or("track_deg", 0.0, between(0.0, 360.0, "deg"));
+    read_turn(r, p);
   } else if (kind == "hover") {
     p.kind = Phase::Kind::hover;
     p.duration_s = r.number("duration_s", above_to(0.0, 1e6, "s"));
   } else {
     p.kind = Phase::Kind::loiter;
     p.duration_s = r.number("duration_s", above_to(0.0, 1e6, "s"));
-    p.airspeed_mps = r.number("airspeed_mps", speed);
+    read_airspeed(r, p, speed);
+    read_turn(r, p);
   }
   r.finish();
   return p;

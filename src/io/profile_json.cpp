@@ -5,6 +5,7 @@
 #include "io/battery_json.hpp"
 #include "io/drive_json.hpp"
 #include "io/mission_json.hpp"
+#include "sim/best_speeds.hpp"
 #include "flight/wind.hpp"
 
 namespace sortie::io {
@@ -56,6 +57,15 @@ LoadedProfile read_profile(ObjectReader& r, const std::string& default_name,
     if (fixed_wing && p.kind == Phase::Kind::hover)
       throw InputError(message(out.source, ptr + "/kind", "a fixed-wing aircraft cannot hover", "\"hover\"",
                                "loiter with an airspeed_mps"));
+    if (!fixed_wing && (p.bank_deg > 0.0 || p.turn_radius_m))
+      throw InputError(message(out.source, ptr + (p.turn_radius_m ? "/turn_radius_m" : "/bank_deg"),
+                               "a banked turn is modelled for a fixed wing only (a multirotor turns without banking "
+                               "its thrust into the lift)",
+                               p.turn_radius_m ? format_number(*p.turn_radius_m) + " m" : format_number(p.bank_deg) + " deg",
+                               "no turn on a multirotor phase"));
+    if (!fixed_wing && p.drag_device)
+      throw InputError(message(out.source, ptr + "/drag_device", "a drag device is modelled for a fixed wing only",
+                               "true", "false or absent"));
     if (fixed_wing && (p.kind == Phase::Kind::climb || p.kind == Phase::Kind::descend) && p.airspeed_mps <= 0.0)
       throw InputError(message(out.source, ptr + "/airspeed_mps",
                                "a fixed-wing climb or descent needs its airspeed along the path", "none",
@@ -73,7 +83,7 @@ LoadedProfile read_profile(ObjectReader& r, const std::string& default_name,
     const Phase& p = m.phases[i];
     if (p.kind != Phase::Kind::cruise || p.duration_s) continue;
     if (!sim::planned_duration_s(m, i)) {
-      const auto leg = flight::solve_leg(m.environment.wind, p.track_deg, p.airspeed_mps);
+      const auto leg = flight::solve_leg(m.environment.wind, p.track_deg, sim::phase_airspeed_mps(m, i));
       throw InputError(message(out.source, out.phase_pointers[i] + "/airspeed_mps", leg.detail,
                                format_number(p.airspeed_mps) + " m/s", "an airspeed that makes headway in this wind"));
     }

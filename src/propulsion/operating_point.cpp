@@ -92,7 +92,7 @@ MotorPoint motor_at_duty(const Drive& d, double duty, double v_axial_mps, double
   m.omega = kTwoPi * n;
   m.rpm = 60.0 * n;
   m.advance_ratio = advance_ratio(d.prop, n, v_axial_mps);
-  m.beyond_prop_table = m.advance_ratio > d.prop.j_covered_max();
+  m.beyond_prop_table = d.prop.outside_tables(m.advance_ratio);
   m.v_motor_V = v_m;
   // Motor quantities from (V_m, ω) so that V_m·I_m − Q·ω = I²·Rm + I0·ω/Kv holds exactly.
   m.i_motor_A = (v_m - m.omega / kv) / mo.rm_ohm;
@@ -160,7 +160,7 @@ MotorPoint solve_motor(const Drive& d, double thrust_N, double v_axial_mps, doub
   if (!std::isfinite(n)) return infeasible_point(m);
 
   m.advance_ratio = advance_ratio(p, n, v_axial_mps);
-  m.beyond_prop_table = m.advance_ratio > p.j_covered_max();
+  m.beyond_prop_table = p.outside_tables(m.advance_ratio);
   m.omega = kTwoPi * n;
   m.rpm = 60.0 * n;
   m.shaft_W = prop_power_W(p, n, v_axial_mps, rho);  // P = CP·ρ·n³·D⁵

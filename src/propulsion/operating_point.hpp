@@ -45,7 +45,7 @@ struct MotorPoint {
   double v_axial_mps = 0.0;   ///< axial inflow speed, m/s
   double rho_kg_m3 = 1.225;   ///< air density, kg/m³
   double advance_ratio = 0.0; ///< J = V/(n·D)
-  bool beyond_prop_table = false;  ///< J above the tables' range: coefficients extrapolated
+  bool beyond_prop_table = false;  ///< J outside the tables' range: coefficients held at the end
   double rpm = 0.0;           ///< shaft speed, rev/min
   double omega = 0.0;         ///< shaft speed, rad/s
   double torque = 0.0;        ///< shaft torque, N·m

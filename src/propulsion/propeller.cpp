@@ -18,6 +18,13 @@ double Prop::j_covered_max() const {
   return j;
 }
 
+double Prop::j_covered_min() const {
+  double j = 0.0;
+  if (!ct.is_constant()) j = std::max(j, ct.x().front());
+  if (!cp.is_constant()) j = std::max(j, cp.x().front());
+  return j;
+}
+
 double advance_ratio(const Prop& p, double n_rps, double v_axial_mps) {
   if (v_axial_mps == 0.0) return 0.0;
   // J = V/(n·D); at n = 0 with inflow, J is unbounded and the tables hold their last value.

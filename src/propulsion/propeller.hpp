@@ -23,6 +23,13 @@ struct Prop {
   /// The largest J both tables cover (infinity when both are constants); beyond it the
   /// coefficients are held at their last values, an extrapolation.
   double j_covered_max() const;
+  /// The smallest J both tables cover (0 when both are constants); below it the coefficients
+  /// are held at their first values, an extrapolation.
+  double j_covered_min() const;
+  /// J outside [j_covered_min, j_covered_max].
+  bool outside_tables(double advance_ratio) const {
+    return advance_ratio > j_covered_max() || advance_ratio < j_covered_min();
+  }
 };
 
 /// J = V / (n·D); 0 for a prop at rest (n = 0 and V = 0). For n → 0 with V > 0, J grows

@@ -3,6 +3,7 @@
 #include <cmath>
 
 #include "flight/atmosphere.hpp"
+#include "report/best_speeds_report.hpp"
 #include "report/discharge_report.hpp"
 #include "report/text_table.hpp"
 
@@ -84,6 +85,7 @@ std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::S
                          " m/s, best L/D " + fixed(w->min_drag_mps, 1) + " m/s (L/D " + fixed(w->ld_max, 1) +
                          "), in level flight at the field" +
                          (w->min_power_below_stall ? "; minimum power is below stall: loiter faster" : ""));
+  if (r.best_speeds) head.add("best speeds", best_speeds_line(*r.best_speeds, r.best_speeds_headwind));
   out += head.render() + "\n";
   out += (r.go ? "  >> " : "  !! ") + verdict_line(m, r, s) + "\n\n";
 
@@ -165,6 +167,10 @@ nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim
   if (const auto& w = r.wing_speeds)
     j["wing_speeds"] = {{"stall_mps", w->stall_mps}, {"min_power_mps", w->min_power_mps},
                         {"max_ld_mps", w->min_drag_mps}, {"ld_max", w->ld_max}};
+  if (r.best_speeds) {
+    j["best_speeds"] = best_speeds_json(*r.best_speeds);
+    if (r.best_speeds_headwind) j["best_speeds"]["into_headwind"] = best_speeds_json(*r.best_speeds_headwind);
+  }
   j["pack"] = {{"name", m.pack.name}, {"layout", m.pack.layout()}, {"series", m.pack.series},
                {"parallel", m.pack.parallel}, {"capacity_Ah", m.pack.capacity_Ah()}};
   j["energy_Wh"] = r.energy_Wh;
@@ -189,7 +195,8 @@ nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim
                       {"v_min_cell_V", p.v_min_cell_V}, {"i_max_A", p.i_max_A}, {"c_rate_max", p.c_rate_max},
                       {"duty_mean", p.duty_mean}, {"duty_max", p.duty_max}, {"eta_mean", p.eta_mean},
                       {"thrust_per_rotor_N", p.thrust_per_rotor_N}, {"density_kg_m3", p.density_kg_m3},
-                      {"ground_speed_mps", p.ground_speed_mps}});
+                      {"ground_speed_mps", p.ground_speed_mps},
+                      {"airspeed_mps", p.airspeed_mps}});
   }
   j["phases"] = phases;
   json ev = json::array();

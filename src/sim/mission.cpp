@@ -12,6 +12,8 @@
 #include "flight/thrust_need.hpp"
 #include "flight/wind.hpp"
 #include "propulsion/operating_point.hpp"
+#include "sim/best_speeds.hpp"
+#include "sim/drive_solve.hpp"
 
 namespace sortie::sim {
 
@@ -70,8 +72,9 @@ enum : std::size_t { kCutoff, kSaturation, kCollapse, kEmpty, kResVLoad, kResSoc
 struct SegmentSetup {
   battery::Demand demand;
   double v_motor_V = 0.0;
-  double thrust_N = 0.0;
-  double axial_mps = 0.0;
+  double thrust_N = 0.0;        ///< per rotor, as the airframe needs it
+  double drive_thrust_N = 0.0;  ///< per rotor, as the drive was solved (sim/drive_solve.hpp)
+  double axial_mps = 0.0;       ///< the drive's axial speed
   double rho = 1.225;
   double shaft_W = 0.0;       ///< per rotor
   double motor_in_W = 0.0;    ///< per rotor, V_m·I_m
@@ -115,25 +118,25 @@ std::optional<SegmentSetup> setup_stretch(const Mission& m, const Phase& p, doub
   c.climb_rate_mps = vertical_rate(p);
   c.rotors = m.drive.rotors;
   c.disk_area_m2 = m.drive.prop.disc_area_m2();
+  c.load_factor = flight::turn_load_factor(p, c.airspeed_mps);
+  c.drag_device = p.drag_device;
   const auto need = flight::thrust_need(m.airframe, c);
   if (flight::refused(need.status)) {
     why = need.detail;
-    field = need.status == flight::FlightStatus::below_stall ? "airspeed_mps" : "rate_mps";
+    field = need.status == flight::FlightStatus::below_stall || need.status == flight::FlightStatus::stall_margin
+                ? "airspeed_mps"
+                : "rate_mps";
     return std::nullopt;
   }
   if (need.status == flight::FlightStatus::vortex_ring) warnings.push_back("vortex_ring: " + need.detail);
-  const auto mp = prop::solve_motor(m.drive, need.thrust_per_rotor_N, need.axial_mps, air->density_kg_m3);
-  if (mp.status == prop::MotorStatus::infeasible) {
-    why = "the drive has no operating point for " + format_fixed(need.thrust_per_rotor_N, 2) +
-          " N per rotor at " + format_fixed(need.axial_mps, 1) + " m/s axial speed";
-    field = "kind";
+  DriveSolve ds = solve_drive(m, need, air->density_kg_m3);
+  if (!ds.ok) {
+    why = ds.why;
+    field = ds.field;
     return std::nullopt;
   }
-  if (mp.status == prop::MotorStatus::over_current) {
-    const double lim = std::min(m.drive.motor.i_max_A, m.drive.esc.i_max_A);
-    warnings.push_back("motor_over_current: motor current " + format_fixed(mp.i_motor_A, 1) + " A above the " +
-                       format_fixed(lim, 1) + " A limit of the " + (mp.motor_over_current ? "motor" : "ESC"));
-  }
+  for (auto& w : ds.warnings) warnings.push_back(std::move(w));
+  const prop::MotorPoint& mp = ds.motor;
   const auto bl = prop::bus_load(m.drive, mp);
   SegmentSetup s;
   const int N = m.drive.rotors;
@@ -141,7 +144,8 @@ std::optional<SegmentSetup> setup_stretch(const Mission& m, const Phase& p, doub
   s.demand = battery::Demand::power(N * bl.a_W + m.avionics_W, N * bl.b_W_per_V);
   s.v_motor_V = mp.v_motor_V;
   s.thrust_N = need.thrust_per_rotor_N;
-  s.axial_mps = need.axial_mps;
+  s.drive_thrust_N = ds.drive_thrust_N;
+  s.axial_mps = ds.drive_axial_mps;
   s.rho = air->density_kg_m3;
   s.shaft_W = mp.shaft_W;
   s.motor_in_W = mp.v_motor_V * mp.i_motor_A;
@@ -193,7 +197,7 @@ std::optional<double> planned_duration_s(const Mission& m, std::size_t i) {
     case Phase::Kind::loiter: return p.duration_s.value_or(0.0);
     case Phase::Kind::cruise: {
       if (p.duration_s) return *p.duration_s;
-      const auto leg = flight::solve_leg(m.environment.wind, p.track_deg, p.airspeed_mps);
+      const auto leg = flight::solve_leg(m.environment.wind, p.track_deg, phase_airspeed_mps(m, i));
       if (leg.status != flight::LegStatus::ok) return std::nullopt;
       return p.distance_m.value_or(0.0) / leg.ground_speed_mps;  // d / (V − w) into a headwind
     }
@@ -202,6 +206,8 @@ std::optional<double> planned_duration_s(const Mission& m, std::size_t i) {
 }
 
 MissionResult simulate(const Mission& m, const SimOptions& opts) {
+  for (const Phase& p : m.phases)
+    if (p.airspeed_choice != Phase::Speed::given) return simulate(with_resolved_airspeeds(m), opts);
   MissionResult out;
   // The cells give their heat to the air at the field (a pack file may name its own air).
   battery::Pack pack = m.pack;
@@ -374,7 +380,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
           out.end_detail = "loaded cell voltage reached the cutoff " + format_fixed(cutoff, 2) + " V";
         } else if (*seg.stopped == kSaturation) {
           const double avail = prop::thrust_available(m.drive, setup->axial_mps, setup->rho, v);
-          const double need = setup->thrust_N;
+          const double need = setup->drive_thrust_N;
           out.end_detail = "the drive cannot give the thrust needed: at " + format_fixed(v, 2) + " V it gives " +
                            format_fixed(avail, 2) + " N per rotor at full duty, the phase needs " + format_fixed(need, 2) +
                            " N (short by " + format_fixed(need - avail, 2) + " N, " +
@@ -553,7 +559,9 @@ std::pair<double, std::string> smallest_margin(const Mission& m, const MissionRe
 
 }  // namespace
 
-SpareResult solve_spare(const Mission& m, const MissionResult& base, const SpareOptions& opts) {
+SpareResult solve_spare(const Mission& m_in, const MissionResult& base, const SpareOptions& opts) {
+  // Keyword airspeeds solved once, not in every simulation of the search.
+  const Mission m = with_resolved_airspeeds(m_in);
   SpareResult out;
   out.phase = spare_phase(m);
   if (!out.phase) {

@@ -13,6 +13,7 @@
 #include "flight/fixed_wing.hpp"
 #include "flight/mission.hpp"
 #include "propulsion/drive.hpp"
+#include "sim/best_speeds.hpp"
 #include "sim/segment.hpp"
 
 namespace sortie::sim {
@@ -121,6 +122,10 @@ struct MissionResult {
   /// Fixed wing only: stall, minimum-power and maximum-L/D speeds at the all-up mass in the
   /// air at the field.
   std::optional<flight::WingSpeeds> wing_speeds;
+  /// Best-endurance and best-range airspeeds by the whole power model (sim/best_speeds.hpp) at
+  /// the field, in calm air, and for range into the profile's wind as a headwind. Filled by the
+  /// caller that shows them (best_speeds is a search of its own, not part of a simulation).
+  std::optional<BestSpeeds> best_speeds, best_speeds_headwind;
   std::vector<PhaseSummary> phases;
   std::vector<MissionEvent> events;
   std::vector<RuleCheck> rules;

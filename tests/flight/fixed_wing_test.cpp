@@ -57,22 +57,29 @@ TEST_CASE("climb: L = W cos(gamma) and T = D + W sin(gamma)") {
   CHECK(d.gamma_rad == doctest::Approx(g).epsilon(1e-15));
   CHECK(d.lift_N == doctest::Approx(W * std::cos(g)).epsilon(1e-15));
   CHECK(d.thrust_N == doctest::Approx(d.drag_N + W * std::sin(g)).epsilon(1e-15));
-  // A sink steeper than the glide needs no thrust: a note, not a refusal.
+  // A sink steeper than the idle glide is refused, naming both angles; with a drag device it
+  // is flown at idle (thrust 0, never negative), a note, not a refusal.
   const WingDemand steep = fixed_wing_steady(w, kMass, kRho, 12.0, -3.0);
-  CHECK(steep.status == FlightStatus::no_thrust_needed);
-  CHECK(steep.thrust_N == 0.0);
-  CHECK_FALSE(refused(steep.status));
+  CHECK(steep.status == FlightStatus::steeper_than_glide);
+  CHECK(refused(steep.status));
+  CHECK(steep.detail.find("descent angle 14.5 deg") != std::string::npos);
+  CHECK(steep.detail.find("idle glide angle") != std::string::npos);
+  const WingDemand braked = fixed_wing_steady(w, kMass, kRho, 12.0, -3.0, 1.0, true);
+  CHECK(braked.status == FlightStatus::no_thrust_needed);
+  CHECK(braked.thrust_N == 0.0);
+  CHECK(braked.power_required_W == 0.0);
+  CHECK_FALSE(refused(braked.status));
   // No path climbs as fast as it flies.
   CHECK(fixed_wing_steady(w, kMass, kRho, 10.0, 10.0).status == FlightStatus::climb_too_steep);
 }
 
 TEST_CASE("V_mp and V_md are the minima of power required and drag in a fine sweep") {
   // Closed forms (Anderson 1999, ch. 5): V_md = √(2W/(ρS))·(K/CD0)^¼, V_mp = (1/3)^¼·V_md.
-  // cl_max raised to 3.5 so that the whole sweep stays above stall (with the demo's 1.2 the
+  // cl_max raised to 6 so that the whole sweep stays above the stall margin (with the demo's 1.2 the
   // minimum-power speed is below stall, and flagged so).
-  const FixedWing w = mapper(3.5);
+  const FixedWing w = mapper(6.0);
   const WingSpeeds s = wing_speeds(w, kMass, kRho);
-  REQUIRE(s.stall_mps < 0.7 * s.min_power_mps);
+  REQUIRE(kStallMargin * s.stall_mps < 0.7 * s.min_power_mps);
   CHECK(s.min_power_mps == doctest::Approx(std::pow(1.0 / 3.0, 0.25) * s.min_drag_mps).epsilon(1e-14));
   // Sweep 0.7·V_mp to 2·V_md in steps h; the grid minimum of a smooth single-minimum function
   // lies within one step of the true minimum.
@@ -113,7 +120,12 @@ TEST_CASE("below the stall speed the airspeed is refused naming the stall speed"
   CHECK(refused(slow.status));
   CHECK(slow.detail.find("below the stall speed 8.24 m/s") != std::string::npos);
   CHECK(slow.cl > w.cl_max);
-  CHECK(fixed_wing_steady(w, kMass, kRho, 1.001 * vs, 0.0).status == FlightStatus::ok);
+  // Between V_s and the planning margin 1.2·V_s (common practice): refused, naming the margin.
+  const WingDemand close = fixed_wing_steady(w, kMass, kRho, 1.1 * vs, 0.0);
+  CHECK(close.status == FlightStatus::stall_margin);
+  CHECK(refused(close.status));
+  CHECK(close.detail.find("1.2 × the stall speed 8.24 m/s") != std::string::npos);
+  CHECK(fixed_wing_steady(w, kMass, kRho, 1.2 * vs, 0.0).status == FlightStatus::ok);
   CHECK(fixed_wing_steady(w, kMass, kRho, 0.0, 0.0).status == FlightStatus::below_stall);
   // Thinner air raises the stall speed by √(ρ0/ρ).
   CHECK(stall_speed_mps(w, kMass, 0.9) == doctest::Approx(vs * std::sqrt(kRho / 0.9)).epsilon(1e-14));
@@ -121,6 +133,48 @@ TEST_CASE("below the stall speed the airspeed is refused naming the stall speed"
   const WingSpeeds s = wing_speeds(w, kMass, kRho);
   CHECK(s.min_power_below_stall);
   CHECK_FALSE(s.min_drag_below_stall);
+}
+
+TEST_CASE("a coordinated turn: n = 1/cos(bank) with induced drag times n^2 and stall speed times sqrt(n)") {
+  // Level turn (Anderson 1999, ch. 6): L = n·W, n = 1/cos φ, r = V²/(g·tan φ), V_s,turn = V_s·√n.
+  const FixedWing w = mapper();
+  const double V = 16.0, bank = 40.0 * std::numbers::pi / 180.0, n = 1.0 / std::cos(bank);
+  const WingDemand straight = fixed_wing_steady(w, kMass, kRho, V, 0.0);
+  const WingDemand turn = fixed_wing_steady(w, kMass, kRho, V, 0.0, n);
+  REQUIRE(turn.status == FlightStatus::ok);
+  CHECK(turn.lift_N == doctest::Approx(n * kMass * kStandardGravity).epsilon(1e-14));
+  const double K = induced_drag_factor(w), q = 0.5 * kRho * V * V, S = w.wing_area_m2;
+  const double d0 = q * S * w.cd0, di = straight.drag_N - d0;
+  CHECK(turn.drag_N == doctest::Approx(d0 + n * n * di).epsilon(1e-13));
+  CHECK(di == doctest::Approx(K * std::pow(kMass * kStandardGravity, 2) / (q * S)).epsilon(1e-13));
+  CHECK(turn.stall_speed_turn_mps == doctest::Approx(turn.stall_speed_mps * std::sqrt(n)).epsilon(1e-15));
+  // Radius and bank are each other's inverse: r = V²/(g·tan φ).
+  const double r = turn_radius_m(V, bank);
+  CHECK(r == doctest::Approx(V * V / (kStandardGravity * std::tan(bank))).epsilon(1e-15));
+  CHECK(bank_for_radius_rad(V, r) == doctest::Approx(bank).epsilon(1e-14));
+  // At 60° bank (n = 2) the wing stalls at √2·V_s; 1.5·V_s flies but is below the margin
+  // 1.2·√2·V_s = 1.70·V_s: refused.
+  const double vs = stall_speed_mps(w, kMass, kRho);
+  const WingDemand steep = fixed_wing_steady(w, kMass, kRho, 1.5 * vs, 0.0, 2.0);
+  CHECK(steep.status == FlightStatus::stall_margin);
+  CHECK(steep.detail.find("in the turn (load factor 2.00)") != std::string::npos);
+}
+
+TEST_CASE("the idle glide angle: W sin(gamma) = D is the boundary of a descent needing no thrust") {
+  // Steady glide (Anderson 1999, ch. 5): T = 0 ⇒ W·sin γ = D with L = W·cos γ; for a shallow
+  // glide tan γ ≈ CD/CL = 1/(L/D).
+  const FixedWing w = mapper();
+  const double V = 12.0, W = kMass * kStandardGravity;
+  const double g = glide_angle_rad(w, kMass, kRho, V);
+  const double cl = W * std::cos(g) / (0.5 * kRho * V * V * w.wing_area_m2);
+  const double cd = w.cd0 + induced_drag_factor(w) * cl * cl;
+  CHECK(std::tan(g) == doctest::Approx(cd / cl).epsilon(1e-12));
+  // Just shallower than the glide needs a little thrust; just steeper is refused.
+  const WingDemand shallow = fixed_wing_steady(w, kMass, kRho, V, -V * std::sin(g) * (1 - 1e-6));
+  CHECK(shallow.status == FlightStatus::ok);
+  CHECK(shallow.thrust_N > 0.0);
+  CHECK(shallow.thrust_N < 1e-4 * W);
+  CHECK(fixed_wing_steady(w, kMass, kRho, V, -V * std::sin(g) * (1 + 1e-6)).status == FlightStatus::steeper_than_glide);
 }
 
 TEST_CASE("thrust_need shares a fixed wing's thrust over its rotors") {

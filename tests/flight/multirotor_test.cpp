@@ -19,6 +19,7 @@ Multirotor quad() {
   m.payload_kg = 0.3;
   m.cda_m2 = 0.055;
   m.cda_vertical_m2 = 0.09;
+  m.download_fraction = 0.0;  // the closed forms below are for the rotors alone
   return m;
 }
 constexpr double kMass = 2.4, kRho = 1.225;
@@ -77,6 +78,20 @@ TEST_CASE("windmill-brake descent: v_i = -Vn/2 - sqrt((Vn/2)^2 - v_h^2)") {
   }
 }
 
+TEST_CASE("download: the rotors carry the weight plus f of their own thrust so T = W/(1 - f)") {
+  // An airframe download fraction f (common practice: a few percent) takes f·T_z off the
+  // rotors' vertical thrust: T_z·(1 − f) = W in hover, and at speed T = √(T_z² + D²).
+  Multirotor m = quad();
+  m.download_fraction = 0.05;
+  const double W = kMass * kStandardGravity;
+  const RotorDemand h = multirotor_hover(m, kMass, kRho, kRotors, kArea);
+  CHECK(h.thrust_total_N == doctest::Approx(W / 0.95).epsilon(1e-15));
+  CHECK(h.download_N == doctest::Approx(0.05 * h.thrust_total_N).epsilon(1e-14));
+  const RotorDemand f = multirotor_forward(m, kMass, kRho, kRotors, kArea, 10.0);
+  const double D = 0.5 * kRho * 100.0 * m.cda_m2;
+  CHECK(f.thrust_total_N == doctest::Approx(std::hypot(W / 0.95, D)).epsilon(1e-14));
+}
+
 TEST_CASE("descent between 0 and 2 v_h is flagged as the vortex-ring state") {
   const Multirotor m = quad();
   const RotorDemand hover = multirotor_hover(m, kMass, kRho, kRotors, kArea);
@@ -93,6 +108,15 @@ TEST_CASE("descent between 0 and 2 v_h is flagged as the vortex-ring state") {
   // The normal-working branch in the band still satisfies Glauert's equation.
   const double T = slow.thrust_per_rotor_N, vi = slow.induced_mps;
   CHECK(vi * std::fabs(slow.axial_mps + vi) == doctest::Approx(T / (2 * kRho * kArea)).epsilon(1e-11));
+  // The warning region (Wolkovitch 1972 box, flight/multirotor.hpp): forward speed above v_h
+  // takes the rotor out of it at the same descent rate, and so does a descent below 0.28·v_h.
+  CHECK(multirotor_steady(m, kMass, kRho, kRotors, kArea, 1.05 * vh, -1.5).status == FlightStatus::ok);
+  CHECK(multirotor_steady(m, kMass, kRho, kRotors, kArea, 0.9 * vh, -1.5).status == FlightStatus::vortex_ring);
+  CHECK(multirotor_descent(m, kMass, kRho, kRotors, kArea, 0.25 * vh).status == FlightStatus::ok);
+  CHECK(in_vortex_ring_region(0.0, -0.28 * vh, vh));
+  CHECK(in_vortex_ring_region(0.5 * vh, -1.99 * vh, vh));
+  CHECK_FALSE(in_vortex_ring_region(0.0, -2.01 * vh, vh));
+  CHECK_FALSE(in_vortex_ring_region(0.0, 0.5 * vh, vh));  // climbing
   // Descending faster than 2·v_h leaves the band.
   const RotorDemand fast = multirotor_descent(m, kMass, kRho, kRotors, kArea, 2.2 * vh);
   CHECK(fast.status == FlightStatus::ok);

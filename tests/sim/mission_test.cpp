@@ -108,8 +108,9 @@ TEST_CASE("fixed wing at the minimum-power speed: endurance matches Traub's clos
   // battery is ideal (flat OCV V, no resistance) and the drive's efficiency η is constant: the
   // static propeller's η_p = T·V/P_shaft = CT·J/CP and the ESC's d/(d + k_sw) (no other losses).
   sim::Mission m;
-  // Wing area and CLmax chosen so that the minimum-power speed is above stall.
-  flight::FixedWing w{"test wing", 1.6, 0.2, 0.8, 0.028, 9.0, 0.8, 1.5};
+  // Wing area and CLmax chosen so that the minimum-power speed is above the stall margin
+  // (1.2·V_s: CL_mp = 1.38 ≤ 2.1/1.44).
+  flight::FixedWing w{"test wing", 1.6, 0.2, 0.8, 0.028, 9.0, 0.8, 2.1};
   m.airframe = w;
   const double kv = 900, k_sw = 0.03, D = 0.254, CT = 0.09, CP = 0.05;
   m.drive = ideal_drive(1, D, CT, CP, kv, k_sw);
@@ -155,7 +156,9 @@ TEST_CASE("multirotor hover with an ideal battery: endurance is E·η / (N·T^1.
   REQUIRE(r.end_kind == "soc_floor");
 
   const double rho = m.environment.atmosphere.at(0.0)->density_kg_m3;
-  const double mass = 1.6 + 0.3 + 6 * 0.11, T = mass * g0 / 4, A = kPi * D * D / 4;
+  // The rotors also carry the airframe's download f (default 0.03): T = W/(4·(1 − f)).
+  const double f = flight::Multirotor{}.download_fraction;
+  const double mass = 1.6 + 0.3 + 6 * 0.11, T = mass * g0 / 4 / (1 - f), A = kPi * D * D / 4;
   const double FM = std::pow(CT, 1.5) / (std::sqrt(kPi / 2) * CP);
   const double p_hover = 4 * std::pow(T, 1.5) / (FM * std::sqrt(2 * rho * A));
   const double n = std::sqrt(T / (CT * rho * std::pow(D, 4)));
@@ -214,13 +217,15 @@ TEST_CASE("energy: the pack's energy out is the sum over the phases — and SoC 
 }
 
 TEST_CASE("a heavier pack needs more thrust") {
-  // All-up mass = empty + payload + pack (DESIGN.md): hover thrust per rotor = m·g/N.
+  // All-up mass = empty + payload + pack (DESIGN.md): hover thrust per rotor = m·g/(N·(1 − f)),
+  // f the airframe's download fraction.
   sim::Mission m = quad_mission();
   const auto light = sim::simulate(m);
   m.pack.parallel = 2;
   const auto heavy = sim::simulate(m);
   CHECK(heavy.all_up_mass_kg == doctest::Approx(light.all_up_mass_kg + 6 * 0.11));
-  CHECK(heavy.phases[2].thrust_per_rotor_N == doctest::Approx(heavy.all_up_mass_kg * g0 / 4).epsilon(1e-9));
+  const double f = std::get<flight::Multirotor>(m.airframe).download_fraction;
+  CHECK(heavy.phases[2].thrust_per_rotor_N == doctest::Approx(heavy.all_up_mass_kg * g0 / 4 / (1 - f)).epsilon(1e-9));
   CHECK(heavy.phases[2].thrust_per_rotor_N > light.phases[2].thrust_per_rotor_N);
 }
 
