@@ -36,6 +36,12 @@ int run_discharge(const DischargeOptions& o) {
   const bool print = print_format(o.report, {{"--json", &o.json_file}, {"--trace", &o.trace_file}}, o.quiet);
   battery::Pack pack = io::load_pack_file(o.pack_file);
   if (o.soc0) pack.soc0 = *o.soc0;
+  // The floor is checked against the start actually used: the pack file's soc0 when --soc0 is
+  // not given (a floor above it ended the run at t = 0 with a report of nothing).
+  if (o.soc_floor >= pack.soc0)
+    throw UsageError("--soc-floor: at or above the initial state of charge (got " + format_number(o.soc_floor) +
+                     ", expected below " + format_number(pack.soc0) + ", the " +
+                     (o.soc0 ? std::string("--soc0") : "soc0 of " + o.pack_file) + ")");
   if (o.temperature_C) pack.temperature_C = *o.temperature_C;
   if (o.air_C) pack.air_C = *o.air_C;
   sim::DischargeSpec spec;
@@ -109,8 +115,6 @@ void add_discharge_command(CLI::App& app, int& exit_code) {
   c->callback([o, c, &exit_code] {
     if (!o->power_W && !o->current_A && o->load_file.empty())
       throw CLI::RequiredError("one of --power, --current or --load");
-    if (o->soc0 && o->soc_floor >= *o->soc0)
-      throw UsageError("--soc-floor: at or above the initial state of charge");
     (void)c;
     exit_code = run_discharge(*o);
   });

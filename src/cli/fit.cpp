@@ -73,7 +73,8 @@ int run_fit_cell(const FitCellOptions& o) {
   fo.air_C = o.air_C;
   fo.i_cont_max_A = o.i_cont_max_A;
   if (o.v_max_V && o.v_cutoff_V && *o.v_cutoff_V >= *o.v_max_V)
-    throw UsageError("--v-cutoff-V: at or above --v-max-V");
+    throw UsageError("--v-cutoff-V: at or above --v-max-V (got " + format_number(*o.v_cutoff_V) + " V, expected below " +
+                     format_number(*o.v_max_V) + " V)");
   const fit::CellFitResult r = fit::fit_cell(log, fo);
 
   const nlohmann::ordered_json model = io::cell_to_json(r.cell, r.note);

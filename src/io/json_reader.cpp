@@ -150,10 +150,20 @@ nlohmann::json parse_json_text(const std::string& text, const std::string& name)
       throw InputError(name + ": " + *dup.found + ": key given twice in one object (expected each key once)");
     return j;
   } catch (const nlohmann::json::out_of_range& e) {
-    // A literal too large for a double (1e999): nlohmann gives no position for it.
-    std::string why = e.what();
-    if (auto p = why.find("] "); p != std::string::npos) why = why.substr(p + 2);
-    throw InputError(name + ": " + why + " (expected a finite number)");
+    // A literal too large for a double (1e999): nlohmann gives no position for it, only the
+    // literal ("number overflow parsing '1e999'"); its first place in the text gives one.
+    const std::string why = e.what();
+    const auto q0 = why.find('\''), q1 = why.rfind('\'');
+    const std::string literal = q0 != std::string::npos && q1 > q0 ? why.substr(q0 + 1, q1 - q0 - 1) : "";
+    const std::size_t at = literal.empty() ? std::string::npos : text.find(literal);
+    std::string where;
+    if (at != std::string::npos) {
+      std::size_t line = 0, col = 0;
+      line_column(text, at + 1, line, col);
+      where = "line " + std::to_string(line) + ", column " + std::to_string(col) + ": ";
+    }
+    throw InputError(name + ": " + where + "number too large for a double (got " + (literal.empty() ? "?" : literal) +
+                     ", expected a finite number)");
   } catch (const nlohmann::json::parse_error& e) {
     std::size_t line = 0, col = 0;
     line_column(text, e.byte, line, col);
