@@ -95,7 +95,7 @@ void add_compare_command(CLI::App& app, int& exit_code) {
   c->add_option("--cell", o->cell, "cell to build the packs from (default: the profile pack's cell)")
       ->check(CLI::ExistingFile);
   pk->excludes(se)->excludes(ca);
-  c->add_option("--json", o->json_file, "write the ranked rows as JSON to FILE, or - for standard output");
+  c->add_option("--json", o->json_file, "write the ranked rows as JSON to FILE, or - for standard output")->check(output_path());
   add_report_options(c, o->report, {"text", "json", "csv"});
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
   c->callback([o, &exit_code] {

@@ -107,8 +107,8 @@ void add_discharge_command(CLI::App& app, int& exit_code) {
   c->add_option("--air-C", o->air_C,
                 "air the cells give their heat to, °C, for cells with a thermal model (default: the pack's air_temperature_C, else its temperature)")
       ->check(number_in(between(-60.0, 100.0, "°C")));
-  c->add_option("--json", o->json_file, "write the result as JSON to FILE, or - for standard output");
-  c->add_option("--trace", o->trace_file, "write a CSV trace to FILE");
+  c->add_option("--json", o->json_file, "write the result as JSON to FILE, or - for standard output")->check(output_path());
+  c->add_option("--trace", o->trace_file, "write a CSV trace to FILE")->check(output_path());
   add_report_options(c, o->report, {"text", "json", "csv"});
   c->add_option("--sample-s", o->sample_s, "trace spacing, s, for --trace, --html and --format csv (default 1)")->check(number_in(between(1e-3, 1e6, "s")));
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");

@@ -142,7 +142,7 @@ void add_drive_command(CLI::App& app, int& exit_code) {
   auto* bench = c->add_option("--bench", o->bench_file, "measured bench CSV of one rotor (see README)")->check(CLI::ExistingFile);
   c->add_option("--columns", o->columns, "bench CSV columns: quantity=HEADER[:UNIT],... (throttle, voltage, current, rpm, thrust, torque)")
       ->needs(bench);
-  c->add_option("--json", o->json_file, "write the result as JSON to FILE, or - for standard output");
+  c->add_option("--json", o->json_file, "write the result as JSON to FILE, or - for standard output")->check(output_path());
   add_report_options(c, o->report, {"text", "json", "csv"});
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
   c->callback([o, &exit_code] {

@@ -114,7 +114,7 @@ void add_fit_cell(CLI::App& fit, int& exit_code) {
   c->add_option("LOG", o->log_file, "test log: CSV (or ; or tab separated) with time, current and voltage")
       ->required()
       ->check(CLI::ExistingFile);
-  c->add_option("--out", o->out_file, "write the cell model (JSON) to FILE")->required();
+  c->add_option("--out", o->out_file, "write the cell model (JSON) to FILE")->required()->check(output_path());
   c->add_option("--columns", o->columns,
                 "column names or numbers: time=NAME[:UNIT],current=...,voltage=...[,temp=...][,exclude=...][,mode=...]");
   auto* dp = c->add_flag("--discharge-positive", o->discharge_positive, "the log's current is positive on discharge");
@@ -143,10 +143,10 @@ void add_fit_cell(CLI::App& fit, int& exit_code) {
       ->check(number_in(between(-60.0, 100.0, "°C")));
   c->add_option("--i-cont-max-A", o->i_cont_max_A, "continuous current limit, A (default: the largest in the log)")
       ->check(number_in(above_to(0.0, 1e5, "A")));
-  c->add_option("--report", o->report_file, "write the fit report (text) to FILE");
-  c->add_option("--json", o->json_file, "write the fit report as JSON to FILE, or - for standard output");
-  c->add_option("--trace", o->trace_file, "write measured and model voltage per log row (CSV) to FILE");
-  c->add_option("--html", o->html_file, "write the fit report as one self-contained HTML page (plots inline) to FILE");
+  c->add_option("--report", o->report_file, "write the fit report (text) to FILE")->check(output_path());
+  c->add_option("--json", o->json_file, "write the fit report as JSON to FILE, or - for standard output")->check(output_path());
+  c->add_option("--trace", o->trace_file, "write measured and model voltage per log row (CSV) to FILE")->check(output_path());
+  c->add_option("--html", o->html_file, "write the fit report as one self-contained HTML page (plots inline) to FILE")->check(output_path());
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
   c->callback([o, &exit_code] { exit_code = run_fit_cell(*o); });
 }
@@ -203,7 +203,7 @@ void add_fit_drive(CLI::App& fit, int& exit_code) {
   c->add_option("BENCH", o->bench_file, "bench test: CSV with throttle, bus voltage, bus current, rpm, thrust (torque optional)")
       ->required()
       ->check(CLI::ExistingFile);
-  c->add_option("--out", o->out_file, "write the drive model (JSON) to FILE")->required();
+  c->add_option("--out", o->out_file, "write the drive model (JSON) to FILE")->required()->check(output_path());
   c->add_option("--columns", o->columns, "column names: throttle=NAME[:UNIT],voltage=...,current=...,rpm=...,thrust=...[,torque=...]");
   c->add_option("--diameter-m", o->diameter_m, "prop diameter, m (required: CT and CP are per diameter)")
       ->check(number_in(between(0.01, 10.0, "m")));
@@ -217,9 +217,9 @@ void add_fit_drive(CLI::App& fit, int& exit_code) {
       ->check(number_in(above_to(0.0, 1e5, "A")));
   c->add_option("--duty-max", o->duty_max, "highest ESC duty, 0..1: duty = throttle x this (default 1)")
       ->check(number_in(between(0.05, 1.0, "")));
-  c->add_option("--report", o->report_file, "write the fit report (text) to FILE");
-  c->add_option("--json", o->json_file, "write the fit report as JSON to FILE, or - for standard output");
-  c->add_option("--html", o->html_file, "write the fit report as one self-contained HTML page (plots inline) to FILE");
+  c->add_option("--report", o->report_file, "write the fit report (text) to FILE")->check(output_path());
+  c->add_option("--json", o->json_file, "write the fit report as JSON to FILE, or - for standard output")->check(output_path());
+  c->add_option("--html", o->html_file, "write the fit report as one self-contained HTML page (plots inline) to FILE")->check(output_path());
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
   c->callback([o, &exit_code] { exit_code = run_fit_drive(*o); });
 }

@@ -52,8 +52,8 @@ void add_fly_command(CLI::App& app, int& exit_code) {
   CLI::App* c = app.add_subcommand("fly", "Fly one mission profile: phases, landing state, reserve rules, verdict, spare time");
   c->add_option("PROFILE", o->profile, "mission profile (JSON)")->required()->check(CLI::ExistingFile);
   c->add_option("--pack", o->pack, "use this pack file instead of the profile's pack")->check(CLI::ExistingFile);
-  c->add_option("--json", o->json_file, "write the result as JSON to FILE, or - for standard output");
-  c->add_option("--trace", o->trace_file, "write a CSV trace to FILE");
+  c->add_option("--json", o->json_file, "write the result as JSON to FILE, or - for standard output")->check(output_path());
+  c->add_option("--trace", o->trace_file, "write a CSV trace to FILE")->check(output_path());
   add_report_options(c, o->report, {"text", "json", "csv"});
   c->add_option("--sample-s", o->sample_s, "trace spacing, s, for --trace and --html (default 1)")->check(number_in(between(1e-3, 1e6, "s")));
   c->add_flag("--quiet,-q", o->quiet, "print nothing; the exit code tells go (0) or no-go (3)");

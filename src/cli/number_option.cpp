@@ -55,4 +55,13 @@ CLI::Validator whole_in(int lo, int hi, const std::string& unit) {
       expected, "whole_in");
 }
 
+CLI::Validator output_path() {
+  return CLI::Validator(
+      [](std::string& word) -> std::string {
+        if (word.empty()) return "an empty path (got \"\", expected a file name, or - for standard output)";
+        return {};
+      },
+      "", "output_path");
+}
+
 }  // namespace sortie::cli

@@ -16,4 +16,8 @@ CLI::Validator number_in(const Range& r);
 /// A CLI11 check for a whole-number option from `lo` to `hi` (`unit` may be empty).
 CLI::Validator whole_in(int lo, int hi, const std::string& unit = "");
 
+/// A CLI11 check for a file option (--json, --trace, --html, --out, --report): an empty word
+/// (`--json "$OUT"` with OUT unset) is refused rather than read as "no file".
+CLI::Validator output_path();
+
 }  // namespace sortie::cli

@@ -139,6 +139,10 @@ const std::vector<Case> kCases = {
      "written twice in this run"},
     {"an output in a missing folder", {"fly", P, "--json", "@D/ok.json", "--trace", "@D/missing/t.csv"}, 1,
      "@D/missing/t.csv: cannot write the file"},
+    {"--json with an empty path (an unset shell variable)", {"fly", P, "--json", ""}, 2,
+     "sortie: --json: an empty path (got \"\", expected a file name, or - for standard output)"},
+    {"fit cell --out with an empty path", {"fit", "cell", FC, "--out", ""}, 2, "sortie: --out: an empty path"},
+    {"an output below a file", {"fly", P, "--json", "@D/keep.txt/x.json"}, 1, "@D/keep.txt/x.json: cannot write the file (Not a directory)"},
     // ---- checked standard output
     {"fly --json - onto a full disk", {"fly", P, "--json", "-"}, 1, "sortie: standard output: cannot write (No space left on device)",
      {}, true},
