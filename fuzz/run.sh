@@ -3,7 +3,8 @@
 #
 #   fuzz/run.sh [SECONDS-PER-TARGET] [TARGET...]     (default 60 s; all targets)
 #
-# Targets: cell pack drive airframe profile load_csv cell_log bench_csv (fuzz/targets.hpp).
+# Targets: cell pack drive airframe profile load_csv cell_log bench_csv fit_cell cli_options
+# (fuzz/targets.hpp).
 # Seeds: the bundled models/** and profiles/** that a target reads, fuzz/corpus/<target>/ and
 # fuzz/regressions/<target>/. Inputs the fuzzer finds interesting go to OUT/corpus/<target>/,
 # crashes, timeouts and out-of-memory inputs to OUT/crashes/<target>/, logs to OUT/logs/.
@@ -21,7 +22,7 @@ set -euo pipefail
 
 seconds=${1:-60}
 shift || true
-all_targets=(cell pack drive airframe profile load_csv cell_log bench_csv)
+all_targets=(cell pack drive airframe profile load_csv cell_log bench_csv fit_cell cli_options)
 if [[ $# -gt 0 ]]; then targets=("$@"); else targets=("${all_targets[@]}"); fi
 if ! [[ $seconds =~ ^[0-9]+$ ]] || [[ $seconds -lt 1 ]]; then
   echo "fuzz/run.sh: seconds per target must be a whole number >= 1 (got '$seconds')" >&2
@@ -96,10 +97,11 @@ status=0
 for t in "${targets[@]}"; do
   mkdir -p "$out/corpus/$t" "$out/crashes/$t"
   dict="$out/json.dict"
-  case $t in load_csv | cell_log | bench_csv) dict="$repo/fuzz/csv.dict" ;; esac
+  case $t in load_csv | cell_log | bench_csv | fit_cell) dict="$repo/fuzz/csv.dict" ;; cli_options) dict="$repo/fuzz/cli.dict" ;; esac
   mapfile -t seeds < <(seeds_of "$t")
   echo "== $t: ${seconds} s (log: $out/logs/$t.log)"
-  [[ ${SORTIE_FUZZ_SWEEP:-1} == 0 ]] || sweep "$t"
+  # The sweep varies JSON numbers; the command line's words have no JSON to vary.
+  [[ ${SORTIE_FUZZ_SWEEP:-1} == 0 || $t == cli_options ]] || sweep "$t"
   # -timeout: one input taking over 10 s is a hang; -rss_limit_mb: a runaway allocation.
   (cd "$out/logs" &&
     "$build/fuzz/fuzz_$t" -max_total_time="$seconds" -timeout=10 -rss_limit_mb=2048 \

@@ -1,13 +1,25 @@
 #include "targets.hpp"
 
 #include <algorithm>
+#include <fstream>
+#include <iostream>
+#include <sstream>
 #include <cmath>
 #include <optional>
 #include <stdexcept>
 #include <string>
 
 #include "battery/pack.hpp"
+#include <fcntl.h>
+#include <unistd.h>
+
+#include "cli/run.hpp"
 #include "core/error.hpp"
+#include "fit/fit_cell.hpp"
+#include "io/cell_json_write.hpp"
+#include "io/json_reader.hpp"
+#include "io/output.hpp"
+#include "report/fit_report.hpp"
 #include "flight/airframe.hpp"
 #include "flight/fixed_wing.hpp"
 #include "flight/thrust_need.hpp"
@@ -276,13 +288,102 @@ void run_bench_csv(const std::string& text) {
   report_drive(r);
 }
 
+/// As `sortie fit cell LOG.csv --out CELL.json`: the log, the fit, the model written and read back
+/// through the loader, and the text and JSON reports.
+void run_fit_cell(const std::string& text) {
+  const io::DelimitedFile f = io::parse_delimited(text, "fuzz-fit.csv");
+  const fit::CellLog log = io::read_cell_log(f, io::CellLogOptions{});
+  fit::CellFitOptions fo;
+  fo.rc_pairs = text.size() % 2 ? 1 : 2;
+  if (text.size() % 4 < 2) {
+    // As `--soc0 0.9 --capacity-Ah 1 --rest-min-s 30`: a short pulse log then reaches the fit
+    // itself instead of stopping at "no known full or empty point".
+    fo.soc.soc0 = 0.9;
+    fo.soc.capacity_Ah = 1.0;
+    fo.rest_min_s = 30.0;
+  }
+  const fit::CellFitResult r = fit::fit_cell(log, fo);
+  const nlohmann::json written = nlohmann::json::parse(io::cell_to_json(r.cell, r.note).dump());
+  io::ObjectReader reader(written, io::Source{"fuzz-cell.json"}, "");
+  (void)io::read_cell(reader);
+  (void)report::fit_cell_text(log, r, {}, "fuzz-cell.json");
+  (void)report::fit_cell_json(log, r, {}, "fuzz-cell.json").dump();
+}
+
+/// The command line: the input is words, one per line, after one of a few command prefixes
+/// chosen by its first byte (each naming a bundled model). cli::run parses and runs it in a
+/// scratch folder, with '/' in words turned into '_' so that no output can land outside it.
+/// Any exit code but 0..3, a temporary left open, or a file left in the scratch folder under
+/// the writer's temporary name is a bug.
+void run_cli_options(const std::string& text) {
+  namespace fs = std::filesystem;
+  if (text.empty()) return;
+  const std::string m = (g_root / "models").string(), pr = (g_root / "profiles").string();
+  const std::vector<std::vector<std::string>> prefixes = {
+      {"fly", pr + "/demo-quad-water-tank.json"},
+      {"discharge", m + "/packs/demo-4s1p-lipo-5000.json"},
+      {"drive", m + "/drives/demo-quad-15in.json"},
+      {"fit", "cell", m + "/logs/demo-hppc-synthetic.csv"},
+      {"fit", "drive", m + "/logs/demo-bench-synthetic.csv"},
+      {"compare", pr + "/demo-quad-water-tank.json"},
+      {},
+  };
+  std::vector<std::string> words = {"sortie"};
+  for (const auto& w : prefixes[static_cast<unsigned char>(text[0]) % prefixes.size()]) words.push_back(w);
+  std::string word;
+  for (std::size_t i = 1; i <= text.size() && words.size() < 40; ++i) {
+    if (i == text.size() || text[i] == '\n') {
+      words.push_back(word);
+      word.clear();
+    } else {
+      word += text[i] == '/' ? '_' : text[i];
+    }
+  }
+  std::vector<char*> argv;
+  for (auto& w : words) argv.push_back(w.data());
+  argv.push_back(nullptr);
+
+  const fs::path scratch = g_root / "cli-scratch";
+  fs::remove_all(scratch);
+  fs::create_directories(scratch);
+  const fs::path back = fs::current_path();
+  struct Restore {  // the folder and the streams, however the run ends
+    fs::path dir;
+    std::streambuf* out;
+    std::streambuf* err;
+    ~Restore() {
+      std::error_code ec;
+      fs::current_path(dir, ec);
+      std::cout.rdbuf(out);
+      std::cerr.rdbuf(err);
+    }
+  };
+  std::ostringstream sink;
+  Restore restore{back, std::cout.rdbuf(sink.rdbuf()), std::cerr.rdbuf(sink.rdbuf())};
+  fs::current_path(scratch);
+  // Standard output is written with write(2): keep it off the fuzzer's terminal.
+  const int saved = ::dup(1);
+  const int null_fd = ::open("/dev/null", O_WRONLY);
+  ::dup2(null_fd, 1);
+  const int code = cli::run(static_cast<int>(words.size()), argv.data());
+  ::dup2(saved, 1);
+  ::close(saved);
+  ::close(null_fd);
+  if (code < 0 || code > 3) throw std::logic_error("cli: exit code " + std::to_string(code));
+  if (io::open_temporaries() != 0) throw std::logic_error("cli: a temporary was left registered");
+  for (const auto& e : fs::directory_iterator(scratch))
+    if (e.path().filename().string().rfind(".sortie-", 0) == 0)
+      throw std::logic_error("cli: a temporary was left in the folder: " + e.path().string());
+}
+
 }  // namespace
 
 const std::vector<Target>& targets() {
   static const std::vector<Target> all = {
       {"cell", run_cell},         {"pack", run_pack},         {"drive", run_drive},
       {"airframe", run_airframe}, {"profile", run_profile},   {"load_csv", run_load_csv},
-      {"cell_log", run_cell_log}, {"bench_csv", run_bench_csv},
+      {"cell_log", run_cell_log}, {"bench_csv", run_bench_csv}, {"fit_cell", run_fit_cell},
+      {"cli_options", run_cli_options},
   };
   return all;
 }

@@ -20,7 +20,8 @@ struct Target {
   void (*run)(const std::string& input);
 };
 
-/// Every target: cell, pack, drive, airframe, profile, load_csv, cell_log, bench_csv.
+/// Every target: cell, pack, drive, airframe, profile, load_csv, cell_log, bench_csv, fit_cell,
+/// cli_options.
 const std::vector<Target>& targets();
 /// nullptr for an unknown name.
 const Target* find_target(std::string_view name);

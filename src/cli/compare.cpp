@@ -3,10 +3,13 @@
 
 #include <cstdio>
 #include <iostream>
+#include <type_traits>
 
 #include "cli/commands.hpp"
+#include "cli/number_option.hpp"
 #include "cli/report_output.hpp"
 #include "core/error.hpp"
+#include "core/text.hpp"
 #include "io/battery_json.hpp"
 #include "io/output.hpp"
 #include "io/profile_json.hpp"
@@ -57,10 +60,23 @@ int run_compare(const CompareOptions& o) {
   const std::string html = o.report.html_file.empty() ? "" : report::compare_html(lp.mission, rows);
   if (!o.json_file.empty()) io::write_output(o.json_file, report::compare_json(lp.mission, rows).dump(2) + "\n");
   if (!o.report.html_file.empty()) io::write_output(o.report.html_file, html);
-  if (print && o.report.format == "json") std::cout << report::compare_json(lp.mission, rows).dump(2) << "\n";
-  if (print && o.report.format == "csv") std::cout << report::compare_csv(rows);
-  if (print && o.report.format == "text") std::cout << report::compare_text(lp.mission, rows);
+  if (print && o.report.format == "json") io::write_output("-", report::compare_json(lp.mission, rows).dump(2) + "\n");
+  if (print && o.report.format == "csv") io::write_output("-", report::compare_csv(rows));
+  if (print && o.report.format == "text") io::write_output("-", printable(report::compare_text(lp.mission, rows), true));
   return 0;
+}
+
+/// A list option may not repeat a value: the same pack twice would be one row shown twice.
+template <class T>
+void refuse_repeats(const char* option, const std::vector<T>& values) {
+  for (std::size_t i = 0; i < values.size(); ++i)
+    for (std::size_t k = 0; k < i; ++k)
+      if (values[k] == values[i]) {
+        std::string v;
+        if constexpr (std::is_same_v<T, std::string>) v = values[i];
+        else v = format_number(static_cast<double>(values[i]));
+        throw UsageError(std::string(option) + ": " + v + " given twice (expected each value once)");
+      }
 }
 
 }  // namespace
@@ -71,20 +87,24 @@ void add_compare_command(CLI::App& app, int& exit_code) {
   c->add_option("PROFILE", o->profile, "mission profile (JSON)")->required()->check(CLI::ExistingFile);
   auto* pk = c->add_option("--pack", o->packs, "a pack file to compare (repeat for each)")->check(CLI::ExistingFile);
   auto* se = c->add_option("--series", o->series, "cell counts in series, e.g. 2,3,4,6")
-                 ->delimiter(',')->check(CLI::Range(1, 1000));
+                 ->delimiter(',')->check(whole_in(1, 1000));
   auto* ca = c->add_option("--capacity-Ah", o->capacity_Ah, "cell capacities, Ah, e.g. 3,4,5 (a pack holds --parallel times that)")
-                 ->delimiter(',')->check(CLI::Range(0.01, 10000.0));
+                 ->delimiter(',')->check(number_in(between(0.01, 1e4, "Ah")));
   c->add_option("--parallel", o->parallel, "cells in parallel, e.g. 1,2 (default 1)")
-      ->delimiter(',')->check(CLI::Range(1, 1000));
+      ->delimiter(',')->check(whole_in(1, 1000));
   c->add_option("--cell", o->cell, "cell to build the packs from (default: the profile pack's cell)")
       ->check(CLI::ExistingFile);
   pk->excludes(se)->excludes(ca);
-  c->add_option("--json", o->json_file, "write the ranked rows as JSON to FILE, or - for standard output");
+  c->add_option("--json", o->json_file, "write the ranked rows as JSON to FILE, or - for standard output")->check(output_path());
   add_report_options(c, o->report, {"text", "json", "csv"});
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
   c->callback([o, &exit_code] {
     if (o->packs.empty() && (o->series.empty() || o->capacity_Ah.empty()))
       throw CLI::RequiredError("--pack (repeated), or --series with --capacity-Ah");
+    refuse_repeats("--pack", o->packs);
+    refuse_repeats("--series", o->series);
+    refuse_repeats("--capacity-Ah", o->capacity_Ah);
+    refuse_repeats("--parallel", o->parallel);
     exit_code = run_compare(*o);
   });
 }

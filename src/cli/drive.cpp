@@ -5,8 +5,10 @@
 #include <optional>
 
 #include "cli/commands.hpp"
+#include "cli/number_option.hpp"
 #include "cli/report_output.hpp"
 #include "core/error.hpp"
+#include "core/text.hpp"
 #include "flight/atmosphere.hpp"
 #include "io/bench_csv.hpp"
 #include "io/drive_json.hpp"
@@ -105,9 +107,9 @@ int run_drive(const DriveOptions& o) {
   const std::string html = o.report.html_file.empty() ? "" : report::drive_html(r);
   if (!o.json_file.empty()) io::write_output(o.json_file, report::drive_json(r).dump(2) + "\n");
   if (!o.report.html_file.empty()) io::write_output(o.report.html_file, html);
-  if (print && o.report.format == "json") std::cout << report::drive_json(r).dump(2) << "\n";
-  if (print && o.report.format == "csv") std::cout << report::drive_csv(r);
-  if (print && o.report.format == "text") std::cout << report::drive_text(r);
+  if (print && o.report.format == "json") io::write_output("-", report::drive_json(r).dump(2) + "\n");
+  if (print && o.report.format == "csv") io::write_output("-", report::drive_csv(r));
+  if (print && o.report.format == "text") io::write_output("-", printable(report::drive_text(r), true));
   return 0;
 }
 
@@ -118,29 +120,29 @@ void add_drive_command(CLI::App& app, int& exit_code) {
   CLI::App* c = app.add_subcommand(
       "drive", "Operating points of one rotor of a drive: throttle sweep or one thrust, at a bus voltage");
   c->add_option("DRIVE", o->drive_file, "drive model (JSON)")->check(CLI::ExistingFile);
-  auto* bus = c->add_option("--bus-V", o->bus_V, "bus voltage at the ESCs, V")->check(CLI::Range(0.1, 1000.0));
+  auto* bus = c->add_option("--bus-V", o->bus_V, "bus voltage at the ESCs, V")->check(number_in(between(0.1, 1000.0, "V")));
   auto* cells = c->add_option("--cells", o->cells, "cell counts to compare, e.g. 3,4,6 (bus = cells × --cell-V)")
                     ->delimiter(',')
-                    ->check(CLI::Range(1, 50));
-  c->add_option("--cell-V", o->cell_V, "voltage per cell with --cells, V (default 3.7)")->check(CLI::Range(0.5, 10.0));
+                    ->check(whole_in(1, 50));
+  c->add_option("--cell-V", o->cell_V, "voltage per cell with --cells, V (default 3.7)")->check(number_in(between(0.5, 10.0, "V")));
   bus->excludes(cells);
-  auto* thrust = c->add_option("--thrust-N", o->thrust_N, "thrust per rotor, N")->check(CLI::Range(0.0, 1e5));
+  auto* thrust = c->add_option("--thrust-N", o->thrust_N, "thrust per rotor, N")->check(number_in(between(0.0, 1e5, "N")));
   auto* sweep = c->add_flag("--sweep", o->sweep, "a throttle sweep (the default without --thrust-N)");
   thrust->excludes(sweep);
   c->add_option("--sweep-from-pct", o->sweep_from_pct, "first throttle of the sweep, % of the ESC's duty limit (default 10)")
-      ->check(CLI::Range(0.0, 100.0));
-  c->add_option("--sweep-to-pct", o->sweep_to_pct, "last throttle of the sweep, % (default 100)")->check(CLI::Range(0.0, 100.0));
-  c->add_option("--sweep-step-pct", o->sweep_step_pct, "throttle step of the sweep, % (default 5)")->check(CLI::Range(0.01, 100.0));
-  c->add_option("--airspeed-mps", o->airspeed_mps, "axial airspeed through the prop, m/s (default 0)")->check(CLI::Range(0.0, 200.0));
+      ->check(number_in(between(0.0, 100.0, "%")));
+  c->add_option("--sweep-to-pct", o->sweep_to_pct, "last throttle of the sweep, % (default 100)")->check(number_in(between(0.0, 100.0, "%")));
+  c->add_option("--sweep-step-pct", o->sweep_step_pct, "throttle step of the sweep, % (default 5)")->check(number_in(between(0.01, 100.0, "%")));
+  c->add_option("--airspeed-mps", o->airspeed_mps, "axial airspeed through the prop, m/s (default 0)")->check(number_in(between(0.0, 200.0, "m/s")));
   auto* rho = c->add_option("--density-kg-m3", o->density_kg_m3, "air density, kg/m³ (default 1.225, ISA sea level)")
-                  ->check(CLI::Range(0.05, 2.0));
+                  ->check(number_in(between(0.05, 2.0, "kg/m³")));
   auto* alt = c->add_option("--altitude-m", o->altitude_m, "pressure altitude for ISA air density, m")
-                  ->check(CLI::Range(-500.0, flight::kTropopauseHeight));
+                  ->check(number_in(between(-500.0, flight::kTropopauseHeight, "m")));
   rho->excludes(alt);
   auto* bench = c->add_option("--bench", o->bench_file, "measured bench CSV of one rotor (see README)")->check(CLI::ExistingFile);
   c->add_option("--columns", o->columns, "bench CSV columns: quantity=HEADER[:UNIT],... (throttle, voltage, current, rpm, thrust, torque)")
       ->needs(bench);
-  c->add_option("--json", o->json_file, "write the result as JSON to FILE, or - for standard output");
+  c->add_option("--json", o->json_file, "write the result as JSON to FILE, or - for standard output")->check(output_path());
   add_report_options(c, o->report, {"text", "json", "csv"});
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
   c->callback([o, &exit_code] {

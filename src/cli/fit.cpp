@@ -5,7 +5,9 @@
 #include <optional>
 
 #include "cli/commands.hpp"
+#include "cli/number_option.hpp"
 #include "core/error.hpp"
+#include "core/text.hpp"
 #include "fit/fit_cell.hpp"
 #include "fit/fit_drive.hpp"
 #include "fit/voltage_error.hpp"
@@ -71,7 +73,8 @@ int run_fit_cell(const FitCellOptions& o) {
   fo.air_C = o.air_C;
   fo.i_cont_max_A = o.i_cont_max_A;
   if (o.v_max_V && o.v_cutoff_V && *o.v_cutoff_V >= *o.v_max_V)
-    throw UsageError("--v-cutoff-V: at or above --v-max-V");
+    throw UsageError("--v-cutoff-V: at or above --v-max-V (got " + format_number(*o.v_cutoff_V) + " V, expected below " +
+                     format_number(*o.v_max_V) + " V)");
   const fit::CellFitResult r = fit::fit_cell(log, fo);
 
   const nlohmann::ordered_json model = io::cell_to_json(r.cell, r.note);
@@ -97,11 +100,11 @@ int run_fit_cell(const FitCellOptions& o) {
   const std::string trace = o.trace_file.empty() ? "" : report::fit_cell_trace_csv(log, r, rep.v_terminal_V);
   const std::string page = o.html_file.empty() ? "" : report::fit_cell_html(log, r, err, rep.v_terminal_V, o.out_file);
   io::write_output(o.out_file, model_text);
-  if (!o.report_file.empty()) io::write_output(o.report_file, text);
+  if (!o.report_file.empty()) io::write_output(o.report_file, printable(text, true));
   if (!o.json_file.empty()) io::write_output(o.json_file, json);
   if (!o.trace_file.empty()) io::write_output(o.trace_file, trace);
   if (!o.html_file.empty()) io::write_output(o.html_file, page);
-  if (!o.quiet && o.json_file != "-" && o.out_file != "-" && o.report_file != "-" && o.html_file != "-") std::cout << text;
+  if (!o.quiet && o.json_file != "-" && o.out_file != "-" && o.report_file != "-" && o.html_file != "-") io::write_output("-", printable(text, true));
   return 0;
 }
 
@@ -111,39 +114,39 @@ void add_fit_cell(CLI::App& fit, int& exit_code) {
   c->add_option("LOG", o->log_file, "test log: CSV (or ; or tab separated) with time, current and voltage")
       ->required()
       ->check(CLI::ExistingFile);
-  c->add_option("--out", o->out_file, "write the cell model (JSON) to FILE")->required();
+  c->add_option("--out", o->out_file, "write the cell model (JSON) to FILE")->required()->check(output_path());
   c->add_option("--columns", o->columns,
                 "column names or numbers: time=NAME[:UNIT],current=...,voltage=...[,temp=...][,exclude=...][,mode=...]");
   auto* dp = c->add_flag("--discharge-positive", o->discharge_positive, "the log's current is positive on discharge");
   auto* dn = c->add_flag("--discharge-negative", o->discharge_negative, "the log's current is positive on charge");
   dp->excludes(dn);
   c->add_option("--capacity-Ah", o->capacity_Ah, "cell capacity, Ah, when the log has no full discharge")
-      ->check(CLI::PositiveNumber);
+      ->check(number_in(above_to(0.0, 1e4, "Ah")));
   c->add_option("--rc", o->rc, "RC pairs to fit: 1 or 2 (default 2)")->check(CLI::IsMember({1, 2}));
   c->add_option("--soc0", o->soc0, "state of charge at the first row, 0..1 (when the log has no full or empty point)")
-      ->check(CLI::Range(0.0, 1.0));
+      ->check(number_in(between(0.0, 1.0, "")));
   c->add_option("--v-max-V", o->v_max_V, "full-charge cell voltage, V (default: the highest charge voltage in the log)")
-      ->check(CLI::Range(1.0, 6.0));
+      ->check(number_in(between(1.0, 6.0, "V")));
   c->add_option("--v-cutoff-V", o->v_cutoff_V, "end-of-discharge cell voltage, V (default: the lowest discharge voltage)")
-      ->check(CLI::Range(0.5, 5.0));
-  c->add_option("--series", o->series, "cells in series in a pack log (voltage is divided by it)")->check(CLI::Range(1, 1000));
-  c->add_option("--parallel", o->parallel, "cells in parallel in a pack log (current is divided by it)")->check(CLI::Range(1, 1000));
+      ->check(number_in(between(0.5, 5.0, "V")));
+  c->add_option("--series", o->series, "cells in series in a pack log (voltage is divided by it)")->check(whole_in(1, 1000));
+  c->add_option("--parallel", o->parallel, "cells in parallel in a pack log (current is divided by it)")->check(whole_in(1, 1000));
   c->add_option("--soc-band", o->soc_band, "width of the SoC bands of the parameter tables (default 0.1)")
-      ->check(CLI::Range(0.02, 1.0));
+      ->check(number_in(between(0.02, 1.0, "")));
   c->add_option("--rest-min-s", o->rest_min_s, "shortest rest whose end counts as an OCV point, s (default 300)")
-      ->check(CLI::Range(1.0, 1e6));
+      ->check(number_in(between(1.0, 1e6, "s")));
   c->add_option("--name", o->name, "name written into the model");
   c->add_option("--chemistry", o->chemistry, "chemistry written into the model (e.g. LiPo, Li-ion)");
-  c->add_option("--mass-kg", o->mass_kg, "cell mass, kg (written into the model)")->check(CLI::PositiveNumber);
+  c->add_option("--mass-kg", o->mass_kg, "cell mass, kg (written into the model)")->check(number_in(above_to(0.0, 100.0, "kg")));
   c->add_option("--air-C", o->air_C,
                 "air temperature around the cell during the test, °C, for the thermal block (default: fitted)")
-      ->check(CLI::Range(-60.0, 100.0));
+      ->check(number_in(between(-60.0, 100.0, "°C")));
   c->add_option("--i-cont-max-A", o->i_cont_max_A, "continuous current limit, A (default: the largest in the log)")
-      ->check(CLI::PositiveNumber);
-  c->add_option("--report", o->report_file, "write the fit report (text) to FILE");
-  c->add_option("--json", o->json_file, "write the fit report as JSON to FILE, or - for standard output");
-  c->add_option("--trace", o->trace_file, "write measured and model voltage per log row (CSV) to FILE");
-  c->add_option("--html", o->html_file, "write the fit report as one self-contained HTML page (plots inline) to FILE");
+      ->check(number_in(above_to(0.0, 1e5, "A")));
+  c->add_option("--report", o->report_file, "write the fit report (text) to FILE")->check(output_path());
+  c->add_option("--json", o->json_file, "write the fit report as JSON to FILE, or - for standard output")->check(output_path());
+  c->add_option("--trace", o->trace_file, "write measured and model voltage per log row (CSV) to FILE")->check(output_path());
+  c->add_option("--html", o->html_file, "write the fit report as one self-contained HTML page (plots inline) to FILE")->check(output_path());
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
   c->callback([o, &exit_code] { exit_code = run_fit_cell(*o); });
 }
@@ -187,10 +190,10 @@ int run_fit_drive(const FitDriveOptions& o) {
   const std::string json = o.json_file.empty() ? "" : report::fit_drive_json(o.bench_file, r, o.out_file).dump(2) + "\n";
   const std::string page = o.html_file.empty() ? "" : report::fit_drive_html(o.bench_file, r, o.out_file);
   io::write_output(o.out_file, model_text);
-  if (!o.report_file.empty()) io::write_output(o.report_file, text);
+  if (!o.report_file.empty()) io::write_output(o.report_file, printable(text, true));
   if (!o.json_file.empty()) io::write_output(o.json_file, json);
   if (!o.html_file.empty()) io::write_output(o.html_file, page);
-  if (!o.quiet && o.json_file != "-" && o.out_file != "-" && o.report_file != "-" && o.html_file != "-") std::cout << text;
+  if (!o.quiet && o.json_file != "-" && o.out_file != "-" && o.report_file != "-" && o.html_file != "-") io::write_output("-", printable(text, true));
   return 0;
 }
 
@@ -200,23 +203,23 @@ void add_fit_drive(CLI::App& fit, int& exit_code) {
   c->add_option("BENCH", o->bench_file, "bench test: CSV with throttle, bus voltage, bus current, rpm, thrust (torque optional)")
       ->required()
       ->check(CLI::ExistingFile);
-  c->add_option("--out", o->out_file, "write the drive model (JSON) to FILE")->required();
+  c->add_option("--out", o->out_file, "write the drive model (JSON) to FILE")->required()->check(output_path());
   c->add_option("--columns", o->columns, "column names: throttle=NAME[:UNIT],voltage=...,current=...,rpm=...,thrust=...[,torque=...]");
   c->add_option("--diameter-m", o->diameter_m, "prop diameter, m (required: CT and CP are per diameter)")
-      ->check(CLI::Range(0.01, 10.0));
-  c->add_option("--rotors", o->rotors, "rotors of the drive written (default 1)")->check(CLI::Range(1, 64));
+      ->check(number_in(between(0.01, 10.0, "m")));
+  c->add_option("--rotors", o->rotors, "rotors of the drive written (default 1)")->check(whole_in(1, 64));
   c->add_option("--air-density-kg-m3", o->rho_kg_m3, "air density on the bench, kg/m³ (default 1.225, ISA sea level)")
-      ->check(CLI::Range(0.1, 2.0));
+      ->check(number_in(between(0.1, 2.0, "kg/m³")));
   c->add_option("--name", o->name, "name written into the model");
   c->add_option("--motor-i-max-A", o->motor_i_max_A, "motor continuous current limit, A (default: the bench's largest)")
-      ->check(CLI::PositiveNumber);
+      ->check(number_in(above_to(0.0, 1e5, "A")));
   c->add_option("--esc-i-max-A", o->esc_i_max_A, "ESC continuous current limit, A (default: the bench's largest)")
-      ->check(CLI::PositiveNumber);
+      ->check(number_in(above_to(0.0, 1e5, "A")));
   c->add_option("--duty-max", o->duty_max, "highest ESC duty, 0..1: duty = throttle x this (default 1)")
-      ->check(CLI::Range(0.05, 1.0));
-  c->add_option("--report", o->report_file, "write the fit report (text) to FILE");
-  c->add_option("--json", o->json_file, "write the fit report as JSON to FILE, or - for standard output");
-  c->add_option("--html", o->html_file, "write the fit report as one self-contained HTML page (plots inline) to FILE");
+      ->check(number_in(between(0.05, 1.0, "")));
+  c->add_option("--report", o->report_file, "write the fit report (text) to FILE")->check(output_path());
+  c->add_option("--json", o->json_file, "write the fit report as JSON to FILE, or - for standard output")->check(output_path());
+  c->add_option("--html", o->html_file, "write the fit report as one self-contained HTML page (plots inline) to FILE")->check(output_path());
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
   c->callback([o, &exit_code] { exit_code = run_fit_drive(*o); });
 }

@@ -2,9 +2,11 @@
 #include <iostream>
 
 #include "cli/commands.hpp"
+#include "cli/number_option.hpp"
 #include "cli/report_output.hpp"
 #include "cli/run.hpp"
 #include "core/error.hpp"
+#include "core/text.hpp"
 #include "io/output.hpp"
 #include "io/profile_json.hpp"
 #include "report/html_fly.hpp"
@@ -41,9 +43,9 @@ int run_fly(const FlyOptions& o) {
     io::write_output(o.json_file, report::fly_json(lp.mission, r, spare).dump(2) + "\n");
   if (!o.trace_file.empty()) io::write_output(o.trace_file, report::fly_trace_csv(r));
   if (!o.report.html_file.empty()) io::write_output(o.report.html_file, html);
-  if (print && o.report.format == "json") std::cout << report::fly_json(lp.mission, r, spare).dump(2) << "\n";
-  if (print && o.report.format == "csv") std::cout << report::fly_phases_csv(lp.mission, r);
-  if (print && o.report.format == "text") std::cout << report::fly_text(lp.mission, r, spare);
+  if (print && o.report.format == "json") io::write_output("-", report::fly_json(lp.mission, r, spare).dump(2) + "\n");
+  if (print && o.report.format == "csv") io::write_output("-", report::fly_phases_csv(lp.mission, r));
+  if (print && o.report.format == "text") io::write_output("-", printable(report::fly_text(lp.mission, r, spare), true));
   return r.go ? kExitOk : kExitNoGo;
 }
 
@@ -54,10 +56,10 @@ void add_fly_command(CLI::App& app, int& exit_code) {
   CLI::App* c = app.add_subcommand("fly", "Fly one mission profile: phases, landing state, reserve rules, verdict, spare time");
   c->add_option("PROFILE", o->profile, "mission profile (JSON)")->required()->check(CLI::ExistingFile);
   c->add_option("--pack", o->pack, "use this pack file instead of the profile's pack")->check(CLI::ExistingFile);
-  c->add_option("--json", o->json_file, "write the result as JSON to FILE, or - for standard output");
-  c->add_option("--trace", o->trace_file, "write a CSV trace to FILE");
+  c->add_option("--json", o->json_file, "write the result as JSON to FILE, or - for standard output")->check(output_path());
+  c->add_option("--trace", o->trace_file, "write a CSV trace to FILE")->check(output_path());
   add_report_options(c, o->report, {"text", "json", "csv"});
-  c->add_option("--sample-s", o->sample_s, "trace spacing, s, for --trace and --html (default 1)")->check(CLI::Range(1e-3, 1e6));
+  c->add_option("--sample-s", o->sample_s, "trace spacing, s, for --trace and --html (default 1)")->check(number_in(between(1e-3, 1e6, "s")));
   c->add_flag("--quiet,-q", o->quiet, "print nothing; the exit code tells go (0) or no-go (3)");
   c->callback([o, &exit_code] { exit_code = run_fly(*o); });
 }

@@ -1,5 +1,6 @@
 #include "cli/report_output.hpp"
 
+#include "cli/number_option.hpp"
 #include "core/error.hpp"
 
 namespace sortie::cli {
@@ -11,7 +12,7 @@ void add_report_options(CLI::App* c, ReportOutput& o, const std::vector<std::str
   c->add_option("--format", o.format, "what to print on standard output: " + list + " (default " + formats.front() +
                                           "; json is the JSON result)")
       ->check(CLI::IsMember(formats));
-  c->add_option("--html", o.html_file, "write the report as one self-contained HTML page (plots inline) to FILE");
+  c->add_option("--html", o.html_file, "write the report as one self-contained HTML page (plots inline) to FILE")->check(output_path());
 }
 
 bool print_format(const ReportOutput& o, std::initializer_list<std::pair<const char*, const std::string*>> files,

@@ -5,9 +5,28 @@
 
 #include "cli/commands.hpp"
 #include "core/error.hpp"
+#include "core/text.hpp"
 #include "io/output.hpp"
 
 namespace sortie::cli {
+
+namespace {
+
+/// One line on stderr: a message quotes file names, keys and values as given, so control
+/// characters (a newline among them) are shown escaped.
+int fail(const std::string& what, const char* suffix, int code) {
+  std::cerr << "sortie: " << printable(what) << suffix << "\n";
+  return code;
+}
+
+/// What CLI11 printed (help, version) must have reached standard output.
+int checked_exit(int code) {
+  std::cout.flush();
+  if (!std::cout) return fail("standard output: cannot write", "", kExitBadInput);
+  return code;
+}
+
+}  // namespace
 
 int run(int argc, char** argv) {
   CLI::App app{"sortie: flight time, landing state and reserve checks for small electric aircraft"};
@@ -24,28 +43,26 @@ int run(int argc, char** argv) {
     app.parse(argc, argv);
     outputs.commit();
   } catch (const CLI::CallForHelp& e) {
-    return app.exit(e);
+    return checked_exit(app.exit(e));
   } catch (const CLI::CallForAllHelp& e) {
-    return app.exit(e);
+    return checked_exit(app.exit(e));
   } catch (const CLI::CallForVersion& e) {
-    return app.exit(e);
+    return checked_exit(app.exit(e));
+  } catch (const CLI::ValidationError& e) {
+    // Our validators already say what was expected, in words.
+    return fail(e.what(), "", kExitUsage);
   } catch (const CLI::ParseError& e) {
-    std::cerr << "sortie: " << e.what() << " (see sortie --help)\n";
-    return kExitUsage;
+    return fail(e.what(), " (see sortie --help)", kExitUsage);
   } catch (const UsageError& e) {
-    std::cerr << "sortie: " << e.what() << "\n";
-    return kExitUsage;
+    return fail(e.what(), "", kExitUsage);
   } catch (const InputError& e) {
-    std::cerr << "sortie: " << e.what() << "\n";
-    return kExitBadInput;
+    return fail(e.what(), "", kExitBadInput);
   } catch (const LimitError& e) {
-    std::cerr << "sortie: " << e.what() << "\n";
-    return kExitBadInput;
+    return fail(e.what(), "", kExitBadInput);
   } catch (const std::exception& e) {
-    std::cerr << "sortie: internal error: " << e.what() << "\n";
-    return kExitBadInput;
+    return fail(std::string("internal error: ") + e.what(), "", kExitBadInput);
   }
-  return exit_code;
+  return checked_exit(exit_code);
 }
 
 }  // namespace sortie::cli

@@ -8,6 +8,7 @@
 #include <sstream>
 
 #include "core/error.hpp"
+#include "io/output.hpp"
 #include "core/text.hpp"
 #include "io/json_reader.hpp"
 
@@ -81,6 +82,7 @@ CsvFile parse_csv(const std::string& text, const std::string& name, bool has_hea
 }
 
 CsvFile read_csv(const std::filesystem::path& path, bool has_header) {
+  note_input(path);
   std::ifstream in(path, std::ios::binary);
   if (!in) throw InputError(path.string() + ": cannot open the file");
   std::ostringstream ss;

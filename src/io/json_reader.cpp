@@ -2,43 +2,14 @@
 
 #include <cmath>
 #include <fstream>
+#include <set>
 #include <sstream>
 
 #include "core/error.hpp"
+#include "io/output.hpp"
 #include "core/suggest.hpp"
 
 namespace sortie::io {
-
-bool Range::contains(double v) const {
-  if (!std::isfinite(v)) return false;
-  if (lo_open ? !(v > lo) : !(v >= lo)) return false;
-  if (hi_open ? !(v < hi) : !(v <= hi)) return false;
-  return true;
-}
-
-std::string Range::describe() const {
-  const std::string u = unit.empty() ? "" : " " + unit;
-  const bool has_lo = lo > -1e299, has_hi = hi < 1e299;
-  if (has_lo && has_hi) {
-    std::string s = "a number ";
-    s += lo_open ? "above " + format_number(lo) : "from " + format_number(lo);
-    s += hi_open ? " to below " + format_number(hi) : " to " + format_number(hi);
-    return s + u;
-  }
-  if (has_lo) return std::string("a number ") + (lo_open ? "> " : ">= ") + format_number(lo) + u;
-  if (has_hi) return std::string("a number ") + (hi_open ? "< " : "<= ") + format_number(hi) + u;
-  return "a finite number" + u;
-}
-
-Range positive(std::string unit) { return Range{0.0, 1e300, true, false, std::move(unit)}; }
-Range non_negative(std::string unit) { return Range{0.0, 1e300, false, false, std::move(unit)}; }
-Range between(double lo, double hi, std::string unit) {
-  return Range{lo, hi, false, false, std::move(unit)};
-}
-Range above_to(double lo, double hi, std::string unit) {
-  return Range{lo, hi, true, false, std::move(unit)};
-}
-Range any_number(std::string unit) { return Range{-1e300, 1e300, false, false, std::move(unit)}; }
 
 std::string message(const Source& src, const std::string& pointer, const std::string& what,
                     const std::string& got, const std::string& expected) {
@@ -98,6 +69,69 @@ std::optional<std::size_t> too_deep(const std::string& text) {
   return std::nullopt;
 }
 
+/// Finds the first key given twice in one object (the parser keeps the last silently: a typo'd
+/// copy of a block would win unnoticed). A SAX pass over the text already parsed, building each
+/// value's JSON pointer as it goes.
+class DuplicateKeys {
+ public:
+  using json = nlohmann::json;
+  std::optional<std::string> found;  ///< the pointer of the repeated key
+
+  bool null() { return value(); }
+  bool boolean(bool) { return value(); }
+  bool number_integer(json::number_integer_t) { return value(); }
+  bool number_unsigned(json::number_unsigned_t) { return value(); }
+  bool number_float(json::number_float_t, const json::string_t&) { return value(); }
+  bool string(json::string_t&) { return value(); }
+  bool binary(json::binary_t&) { return value(); }
+  bool start_object(std::size_t) {
+    value();
+    frames_.push_back({true, {}, 0, {}});
+    return true;
+  }
+  bool key(json::string_t& k) {
+    Frame& f = frames_.back();
+    f.token = escape_pointer_token(k);
+    if (!f.keys.insert(k).second) {
+      found = here();
+      return false;  // stop: one message is enough
+    }
+    return true;
+  }
+  bool end_object() {
+    frames_.pop_back();
+    return true;
+  }
+  bool start_array(std::size_t) {
+    value();
+    frames_.push_back({false, {}, 0, {}});
+    return true;
+  }
+  bool end_array() {
+    frames_.pop_back();
+    return true;
+  }
+  bool parse_error(std::size_t, const std::string&, const nlohmann::detail::exception&) { return false; }
+
+ private:
+  struct Frame {
+    bool object;
+    std::string token;      ///< the current member's key (escaped) or element's index
+    std::size_t index;      ///< next element index (arrays)
+    std::set<std::string> keys;
+  };
+  bool value() {
+    if (!frames_.empty() && !frames_.back().object) frames_.back().token = std::to_string(frames_.back().index++);
+    return true;
+  }
+  std::string here() const {
+    std::string p;
+    for (const auto& f : frames_) p += "/" + f.token;
+    return p;
+  }
+  std::vector<Frame> frames_;
+};
+
 }  // namespace
 
 nlohmann::json parse_json_text(const std::string& text, const std::string& name) {
@@ -109,12 +143,27 @@ nlohmann::json parse_json_text(const std::string& text, const std::string& name)
                      " levels of [ and {, expected at most " + std::to_string(kMaxJsonDepth) + ")");
   }
   try {
-    return nlohmann::json::parse(text);
+    nlohmann::json j = nlohmann::json::parse(text);
+    DuplicateKeys dup;
+    nlohmann::json::sax_parse(text, &dup);
+    if (dup.found)
+      throw InputError(name + ": " + *dup.found + ": key given twice in one object (expected each key once)");
+    return j;
   } catch (const nlohmann::json::out_of_range& e) {
-    // A literal too large for a double (1e999): nlohmann gives no position for it.
-    std::string why = e.what();
-    if (auto p = why.find("] "); p != std::string::npos) why = why.substr(p + 2);
-    throw InputError(name + ": " + why + " (expected a finite number)");
+    // A literal too large for a double (1e999): nlohmann gives no position for it, only the
+    // literal ("number overflow parsing '1e999'"); its first place in the text gives one.
+    const std::string why = e.what();
+    const auto q0 = why.find('\''), q1 = why.rfind('\'');
+    const std::string literal = q0 != std::string::npos && q1 > q0 ? why.substr(q0 + 1, q1 - q0 - 1) : "";
+    const std::size_t at = literal.empty() ? std::string::npos : text.find(literal);
+    std::string where;
+    if (at != std::string::npos) {
+      std::size_t line = 0, col = 0;
+      line_column(text, at + 1, line, col);
+      where = "line " + std::to_string(line) + ", column " + std::to_string(col) + ": ";
+    }
+    throw InputError(name + ": " + where + "number too large for a double (got " + (literal.empty() ? "?" : literal) +
+                     ", expected a finite number)");
   } catch (const nlohmann::json::parse_error& e) {
     std::size_t line = 0, col = 0;
     line_column(text, e.byte, line, col);
@@ -127,6 +176,7 @@ nlohmann::json parse_json_text(const std::string& text, const std::string& name)
 }
 
 nlohmann::json load_json_file(const std::filesystem::path& path) {
+  note_input(path);
   std::ifstream in(path, std::ios::binary);
   if (!in) throw InputError(path.string() + ": cannot open the file");
   std::ostringstream ss;
@@ -182,10 +232,7 @@ double ObjectReader::checked_number(const nlohmann::json& v, const std::string& 
   if (!v.is_number())
     throw InputError(message(src_, ptr, "not a number", describe_value(v), r.describe()));
   const double d = v.get<double>();
-  if (!std::isfinite(d))
-    throw InputError(message(src_, ptr, "not a finite number", format_number(d), r.describe()));
-  if (!r.contains(d))
-    throw InputError(message(src_, ptr, "out of range", format_number(d), r.describe()));
+  if (const auto why = range_problem(d, r)) throw InputError(message(src_, ptr, *why));
   return d;
 }
 

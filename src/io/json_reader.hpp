@@ -10,28 +10,18 @@
 #include <utility>
 #include <vector>
 
+#include "core/range.hpp"
 #include "core/table.hpp"
 
 namespace sortie::io {
 
-/// An allowed interval for a number, with the unit shown in messages.
-struct Range {
-  double lo = -1e300;
-  double hi = 1e300;
-  bool lo_open = false;  ///< true: lo itself is refused
-  bool hi_open = false;
-  std::string unit;
-
-  bool contains(double v) const;
-  /// "> 0 A", "0 to 1", "from 2.5 to 4.5 V" ...
-  std::string describe() const;
-};
-
-Range positive(std::string unit);                                  ///< (0, inf)
-Range non_negative(std::string unit);                              ///< [0, inf)
-Range between(double lo, double hi, std::string unit);             ///< [lo, hi]
-Range above_to(double lo, double hi, std::string unit);            ///< (lo, hi]
-Range any_number(std::string unit);
+// The number validator lives in core (the command line uses it too).
+using sortie::above_to;
+using sortie::any_number;
+using sortie::between;
+using sortie::non_negative;
+using sortie::positive;
+using sortie::Range;
 
 /// Where a JSON value came from: the file and the folder relative paths are resolved from.
 struct Source {

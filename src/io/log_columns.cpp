@@ -8,6 +8,7 @@
 #include <sstream>
 
 #include "core/error.hpp"
+#include "io/output.hpp"
 #include "core/suggest.hpp"
 #include "core/text.hpp"
 #include "io/csv.hpp"
@@ -112,6 +113,7 @@ DelimitedFile parse_delimited(const std::string& text, const std::string& name) 
 }
 
 DelimitedFile read_delimited(const std::filesystem::path& path) {
+  note_input(path);
   std::ifstream in(path, std::ios::binary);
   if (!in) throw InputError(path.string() + ": cannot open the file");
   std::ostringstream ss;

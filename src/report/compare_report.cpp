@@ -1,5 +1,7 @@
 #include "report/compare_report.hpp"
 
+#include "core/text.hpp"
+
 #include "report/mission_report.hpp"
 #include "report/text_table.hpp"
 
@@ -38,7 +40,7 @@ std::string spare_cell(const sim::CompareRow& row) {
 }  // namespace
 
 std::string compare_text(const sim::Mission& base, const std::vector<sim::CompareRow>& rows) {
-  std::string out = "sortie compare: " + base.name + "\n";
+  std::string out = "sortie compare: " + printable(base.name) + "\n";
   if (!rows.empty() && rows.front().spare.phase)
     out += "spare time is on phase " + phase_name(base, static_cast<int>(*rows.front().spare.phase)) + "\n";
   out += "\n";

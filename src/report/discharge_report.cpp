@@ -1,5 +1,7 @@
 #include "report/discharge_report.hpp"
 
+#include "core/text.hpp"
+
 #include <cmath>
 
 #include "report/text_table.hpp"
@@ -40,7 +42,7 @@ const char* reason_words(sim::EndReason r) {
 
 std::string discharge_text(const battery::Pack& pack, const std::string& load_label,
                            const sim::DischargeResult& r) {
-  std::string out = "sortie discharge: " + (pack.name.empty() ? pack.cell.name : pack.name) + " (" +
+  std::string out = "sortie discharge: " + printable(pack.name.empty() ? pack.cell.name : pack.name) + " (" +
                     pack.layout() + ", " + fixed(pack.capacity_Ah(), 2) + " Ah at " +
                     fixed(pack.temperature_C, 0) + " °C), " + load_label + "\n\n";
   KeyValues kv;

@@ -1,5 +1,7 @@
 #include "report/drive_report.hpp"
 
+#include "core/text.hpp"
+
 #include <cmath>
 
 #include "report/text_table.hpp"
@@ -245,7 +247,7 @@ std::string drive_text(const DriveResult& r) {
   std::string out;
   if (r.drive) {
     const auto& d = *r.drive;
-    out += "sortie drive: " + (d.name.empty() ? r.drive_file : d.name) + "\n";
+    out += "sortie drive: " + printable(d.name.empty() ? r.drive_file : d.name) + "\n";
     out += "  " + std::to_string(d.rotors) + (d.rotors == 1 ? " rotor" : " rotors") + "; prop " +
            fixed(d.prop.diameter_m, 3) + " m (" + fixed(d.prop.diameter_m / 0.0254, 1) +
            " in); motor " + fixed(d.motor.kv_rpm_per_V, 0) + " rpm/V, " + fixed(d.motor.rm_ohm, 3) +

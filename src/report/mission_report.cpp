@@ -1,5 +1,7 @@
 #include "report/mission_report.hpp"
 
+#include "core/text.hpp"
+
 #include <cmath>
 
 #include "flight/atmosphere.hpp"
@@ -64,7 +66,7 @@ std::string verdict_line(const sim::Mission& m, const MissionResult& r, const si
 }
 
 std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::SpareResult& s) {
-  std::string out = "sortie fly: " + m.name + "\n\n";
+  std::string out = "sortie fly: " + printable(m.name) + "\n\n";
   KeyValues head;
   const std::string af_name = flight::name(m.airframe);
   head.add("aircraft", std::string(flight::kind_name(m.airframe)) + (af_name.empty() ? "" : " \"" + af_name + "\"") +

@@ -137,7 +137,17 @@ std::string escape(const std::string& s) {
       case '>': out += "&gt;"; break;
       case '"': out += "&quot;"; break;
       case '\'': out += "&#39;"; break;
-      default: out += c;
+      default:
+        // XML 1.0 allows no C0 control but tab and line breaks, not even as a character
+        // reference: shown as text (a name from a file may hold one).
+        if ((static_cast<unsigned char>(c) < 0x20 && c != '\t' && c != '\n' && c != '\r') || c == 0x7f) {
+          static const char* hex = "0123456789abcdef";
+          out += "\\x";
+          out += hex[static_cast<unsigned char>(c) >> 4];
+          out += hex[static_cast<unsigned char>(c) & 15];
+        } else {
+          out += c;
+        }
     }
   }
   return out;

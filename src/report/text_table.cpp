@@ -30,7 +30,7 @@ namespace {
 /// A number-like cell ("12.5", "-0.3", "+26.0 %", "739/800", "-"): right-aligned.
 bool numeric(const std::string& s) {
   if (s.empty() || s == "-") return true;
-  static const std::regex number(R"(^[+-]?[0-9.]+(/[0-9.]+)?( ?[%A-Za-z]{1,3})?$)");
+  static const std::regex number(R"(^[+-]?[0-9.]+(e[+-][0-9]+)?(/[0-9.]+)?( ?[%A-Za-z]{1,3})?$)");
   return std::regex_match(s, number);
 }
 }  // namespace
@@ -104,6 +104,13 @@ std::string TextTable::render(const std::string& indent) const {
   for (const auto& r : rows_) out += line(r);
   return out;
 }
+
+void TextTable::add_row(std::vector<std::string> cells) {
+  for (auto& c : cells) c = printable(c);
+  rows_.push_back(std::move(cells));
+}
+
+void KeyValues::add(std::string key, std::string value) { items_.emplace_back(std::move(key), printable(value)); }
 
 std::string KeyValues::render(const std::string& indent) const {
   std::size_t w = 0;

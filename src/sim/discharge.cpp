@@ -71,9 +71,15 @@ DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec) 
   SegmentOptions opts;
   opts.sample_s = spec.sample_s;
   opts.next_sample_t = t;
-  opts.max_steps = spec.max_steps;  // for the whole discharge, over every segment
+  // For the whole discharge, over every segment; a series gets a share per stretch (see the spec).
+  opts.max_steps = spec.max_steps;
+  if (spec.load == DischargeSpec::Load::series) {
+    opts.max_steps += spec.steps_per_stretch * segments.size();
+    opts.step_cap_hint = "the load has " + std::to_string(spec.series.time_s.size()) +
+                         " rows; resample it to fewer rows, or split it into shorter files";
+  }
   opts.max_samples = spec.max_samples;
-  opts.context = "discharge";
+  opts.context = spec.context;
   out.thermal = model.thermal;
   out.air_C = model.air_C;
   out.temperature_max_C = model.t0_C;

@@ -25,7 +25,14 @@ struct DischargeSpec {
   double cutoff_cell_V = 0;  ///< loaded cell voltage that ends the discharge, V
   double soc_floor = 0.0;    ///< SoC that ends the discharge
   double sample_s = 1.0;     ///< trace spacing, s (0: no trace)
-  std::size_t max_steps = 200000;      ///< integration steps in all (LimitError beyond)
+  /// Integration steps in all (LimitError beyond), plus steps_per_stretch for each stretch of a
+  /// load series: the stepper starts again at every row of a load file, so a long log needs at
+  /// least a step per row, and a cap that did not grow with the log would refuse an ordinary
+  /// 100 Hz one-hour log (360 000 rows). 16 is about ten times what a smooth stretch takes.
+  std::size_t max_steps = 200000;
+  std::size_t steps_per_stretch = 16;
+  /// What the run is, leading the cap messages ("discharge: load.csv").
+  std::string context = "discharge";
   std::size_t max_samples = 1000000;   ///< trace samples in all (LimitError beyond)
 };
 

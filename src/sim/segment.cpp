@@ -88,7 +88,8 @@ SegmentResult run_segment(const battery::PackModel& pack, const battery::Demand&
     if (opts.steps_done + res.steps >= opts.max_steps)
       throw LimitError(lead(opts) + ": integration stopped after " + std::to_string(opts.max_steps) +
                        " steps at t = " + format_number(stepper.current_time()) +
-                       " s without reaching the end");
+                       " s without reaching the end" +
+                       (opts.step_cap_hint.empty() ? std::string() : "; " + opts.step_cap_hint));
     auto [ta, tb] = stepper.do_step(rhs);
     ++res.steps;
     if (!(tb > ta))

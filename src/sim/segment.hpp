@@ -52,6 +52,8 @@ struct SegmentOptions {
   /// What is being integrated, leading the step-cap and sample-cap messages
   /// ("phase 3 (hover)"); empty: "integration".
   std::string context;
+  /// A way out, ending the step-cap message ("resample the load ..."); empty: none.
+  std::string step_cap_hint;
 };
 
 /// Called once per accepted step with the step's ends and a way to evaluate the dense output

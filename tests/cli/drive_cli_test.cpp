@@ -175,7 +175,7 @@ TEST_CASE("drive: a broken drive file exits 1 naming the file — the pointer an
        "/motor/kv_rpm_per_v: unknown field 'kv_rpm_per_v'; did you mean 'kv_rpm_per_V'?"},
       {"\"i_max_A\": 28, ", "", "/motor/i_max_A: missing field 'i_max_A'"},
       {"\"rm_ohm\": 0.09", "\"rm_ohm\": 0.09, \"rm_ohms\": 1", "/motor/rm_ohms: unknown field 'rm_ohms'; did you mean 'rm_ohm'?"},
-      {"\"duty_max\": 0.98", "\"duty_max\": 1.2", "/esc/duty_max: out of range (got 1.2, expected a number above 0 to 1)"},
+      {"\"duty_max\": 0.98", "\"duty_max\": 1.2", "/esc/duty_max: out of range (got 1.2, expected a number above 0, up to 1)"},
       {"0.042, 0.042, 0.041", "0.012, 0.042, 0.041",
        "/prop/cp: power coefficient below the momentum-theory minimum at J = 0"},
       {"\"value\": [0.105", "\"value\": [-0.105", "/prop/ct: static thrust coefficient not positive"},

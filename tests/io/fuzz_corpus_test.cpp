@@ -121,6 +121,11 @@ TEST_CASE("fuzz replay: load CSV inputs load or throw InputError or LimitError")
 TEST_CASE("fuzz replay: cell log inputs load or throw InputError or LimitError") {
   CHECK(replay_target("cell_log") > 0);
 }
+TEST_CASE("fuzz replay: fit cell inputs fit or throw InputError or LimitError") { CHECK(replay_target("fit_cell") > 0); }
+TEST_CASE("fuzz replay: command lines end with an exit code from 0 to 3 and leave no temporary") {
+  // The regressions are the command lines that crashed or hung before the option validator.
+  CHECK(replay_target("cli_options") > 0);
+}
 TEST_CASE("fuzz replay: bench CSV inputs load or throw InputError or LimitError") {
   CHECK(replay_target("bench_csv") > 0);
 }

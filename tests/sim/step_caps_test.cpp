@@ -64,8 +64,19 @@ TEST_CASE("discharge step cap over a load series names the whole cap — not the
   spec.cutoff_cell_V = 1.0;
   spec.sample_s = 0.0;
   spec.max_steps = 100;
+  spec.steps_per_stretch = 0;  // the cap alone, not its share per stretch
   CHECK_THROWS_WITH_AS(sim::discharge(rc_pack(), spec), Contains("discharge: integration stopped after 100 steps at t = "),
                        LimitError);
+  // The message names the run and offers a way out.
+  spec.context = "discharge: flight-log.csv";
+  CHECK_THROWS_WITH_AS(sim::discharge(rc_pack(), spec),
+                       Contains("discharge: flight-log.csv: integration stopped after 100 steps at t = "), LimitError);
+  CHECK_THROWS_WITH_AS(sim::discharge(rc_pack(), spec),
+                       Contains("without reaching the end; the load has 401 rows; resample it to fewer rows, or split it into shorter files"),
+                       LimitError);
+  // With its share per stretch the same load runs to its end.
+  spec.steps_per_stretch = 16;
+  CHECK(sim::discharge(rc_pack(), spec).end_reason == sim::EndReason::load_end);
 }
 
 TEST_CASE("discharge sample cap: a fine trace over a long discharge is a LimitError") {
