@@ -4,6 +4,7 @@
 
 #include "flight/atmosphere.hpp"
 #include "report/discharge_report.hpp"
+#include "report/model_range_report.hpp"
 #include "report/text_table.hpp"
 
 namespace sortie::report {
@@ -21,6 +22,7 @@ std::string phase_name(const sim::Mission& m, int i) {
 std::string rule_words(const std::string& name) {
   if (name == "mission_flown") return "whole mission flown";
   if (name == "soc_min") return "charge at landing";
+  if (name == "soc_covered") return "charge at landing within the cell model's data";
   if (name == "hover_s") return "time on station left at landing";
   if (name == "v_rest_cell_min_V") return "resting cell voltage at landing";
   if (name == "v_load_cell_min_V") return "loaded cell voltage in flight";
@@ -28,11 +30,22 @@ std::string rule_words(const std::string& name) {
 }
 
 std::string rule_value(const sim::RuleCheck& r, double v) {
-  if (r.name == "soc_min") return fixed(v * 100.0, 1) + " %";
+  if (r.name == "soc_min" || r.name == "soc_covered") return fixed(v * 100.0, 1) + " %";
   if (r.unit == "V") return fixed(v, 3) + " V";
   if (r.unit == "s") return fixed(v, 0) + " s";
   return fixed(v, 3);
 }
+
+namespace {
+/// The excursions beyond the model's range, appended to the verdict: a verdict never rests on
+/// an extrapolated figure without saying so.
+std::string model_range_note(const MissionResult& r) {
+  if (r.excursions.empty()) return "";
+  std::string s = " [outside the model's data: ";
+  for (std::size_t k = 0; k < r.excursions.size(); ++k) s += (k ? "; " : "") + sim::brief(r.excursions[k]);
+  return s + "]";
+}
+}  // namespace
 
 std::string verdict_line(const sim::Mission& m, const MissionResult& r, const sim::SpareResult& s) {
   if (r.go) {
@@ -41,7 +54,7 @@ std::string verdict_line(const sim::Mission& m, const MissionResult& r, const si
       line += "; " + duration_hms(s.spare_s) + " to spare on phase " + phase_name(m, static_cast<int>(*s.phase));
       if (!s.binding_rule.empty()) line += " (then " + rule_words(s.binding_rule) + " binds)";
     }
-    return line;
+    return line + model_range_note(r);
   }
   std::string why;
   if (!r.completed) {
@@ -59,7 +72,7 @@ std::string verdict_line(const sim::Mission& m, const MissionResult& r, const si
     line += s.bounded ? "; shorten phase " + phase_name(m, static_cast<int>(*s.phase)) + " by " + duration_hms(-s.spare_s)
                       : "; " + s.note;
   }
-  return line;
+  return line + model_range_note(r);
 }
 
 std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::SpareResult& s) {
@@ -129,13 +142,14 @@ std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::S
   out += "reserve rules\n";
   TextTable rt({"rule", "required", "actual", "margin", "result"});
   for (const auto& rule : r.rules) {
-    std::string margin = rule.name == "soc_min" ? fixed(rule.margin * 100, 1) + " %" : rule_value(rule, rule.margin);
+    std::string margin = rule.name == "soc_min" || rule.name == "soc_covered" ? fixed(rule.margin * 100, 1) + " %" : rule_value(rule, rule.margin);
     if (rule.margin > 0 && margin[0] != '-') margin = "+" + margin;
     rt.add_row({rule_words(rule.name), rule_value(rule, rule.required), rule_value(rule, rule.actual), margin,
                 rule.pass ? "pass" : "FAIL"});
   }
   out += rt.render() + "\n";
 
+  if (!r.excursions.empty()) out += excursions_text(r.excursions) + "\n";
   if (!r.events.empty()) {
     out += "events\n";
     TextTable et({"t s", "phase", "event", "detail"});
@@ -201,6 +215,9 @@ nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim
     rules.push_back({{"name", rule.name}, {"unit", rule.unit}, {"required", rule.required},
                      {"actual", rule.actual}, {"margin", rule.margin}, {"pass", rule.pass}});
   j["rules"] = rules;
+  j["model_range"] = {{"coverage", coverage_json(m.pack.cell)},
+                      {"soc_floor_covered", r.soc_floor_covered},
+                      {"excursions", excursions_json(r.excursions, true)}};
   return j;
 }
 
