@@ -1,5 +1,6 @@
 #include "report/mission_report.hpp"
 
+#include <algorithm>
 #include <cmath>
 
 #include "flight/atmosphere.hpp"
@@ -131,7 +132,13 @@ std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::S
                                      " °C at landing, highest " + fixed(r.temperature_max_C, 1) + " °C (air " +
                                      fixed(r.air_C, 1) + " °C)");
   land.add("mean duty, mean ESC efficiency", fixed(r.duty_mean * 100, 1) + " %, " + fixed(r.eta_esc_mean * 100, 1) + " %");
-  if (m.reserve.hover_s) land.add("time on station left at landing", fixed(r.reserve_time_s, 0) + " s");
+  if (m.reserve.hover_s) {
+    // Counted down to the covered SoC floor while the rule soc_covered holds the verdict to it.
+    const bool to_floor = std::any_of(r.rules.begin(), r.rules.end(), [](const sim::RuleCheck& c) { return c.name == "soc_covered"; });
+    land.add("time on station left at landing",
+             fixed(r.reserve_time_s, 0) + " s" +
+                 (to_floor ? " (down to " + fixed(r.soc_floor_covered * 100, 1) + " % charge, the lowest the cell model has data for)" : ""));
+  }
   if (s.phase)
     land.add("spare time", (s.spare_s >= 0 ? "+" : "") + fixed(s.spare_s, 0) + " s on phase " +
                                phase_name(m, static_cast<int>(*s.phase)) +
