@@ -100,10 +100,11 @@ DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec) 
     out.temperature_max_C = std::max(out.temperature_max_C, s.x[battery::kTemp]);
   };
   const StepHook hook = [&](double ta, double tb, const std::function<Sample(double)>& at) {
-    track(at(ta));
-    track(at(0.5 * (ta + tb)));
-    track(at(tb));
-    watch.step(ta, tb, at);
+    const Sample a = at(ta), mid = at(0.5 * (ta + tb)), b = at(tb);
+    track(a);
+    track(mid);
+    track(b);
+    watch.step(a, mid, b, at);
   };
 
   Sample end;

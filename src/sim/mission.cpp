@@ -322,7 +322,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
         track(a);
         track(mid);
         track(b);
-        watch.step(ta, tb, at, static_cast<int>(i));
+        watch.step(a, mid, b, at, static_cast<int>(i));
         // ∫ d dt by Simpson's rule on the dense output, d = V_m/V.
         if (vm > 0)
           phase_duty_integral += (tb - ta) / 6.0 *

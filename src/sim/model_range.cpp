@@ -56,6 +56,7 @@ RangeWatch::RangeWatch(const battery::Pack& pack) {
     b.e.range = std::move(range);
     b.e.limit = limit;
     b.e.extreme = limit;
+    b.below = b.e.side == "below";
     b.value = std::move(value);
     bounds_.push_back(std::move(b));
   };
@@ -89,7 +90,7 @@ RangeWatch::RangeWatch(const battery::Pack& pack) {
 
 double RangeWatch::margin(const Bound& b, const Sample& s) {
   const double v = b.value(s);
-  return b.e.side == "below" ? v - b.e.limit : b.e.limit - v;
+  return b.below ? v - b.e.limit : b.e.limit - v;
 }
 
 void RangeWatch::visit(Bound& b, const Sample& s, double g) {
@@ -113,12 +114,18 @@ void RangeWatch::start(const Sample& s, int phase) {
 
 void RangeWatch::step(double ta, double tb, const std::function<Sample(double)>& at, int phase) {
   if (!(tb > ta)) return;
-  const Sample pts[3] = {at(ta), at(0.5 * (ta + tb)), at(tb)};
+  step(at(ta), at(0.5 * (ta + tb)), at(tb), at, phase);
+}
+
+void RangeWatch::step(const Sample& a0, const Sample& mid, const Sample& b0, const std::function<Sample(double)>& at,
+                      int phase) {
+  if (!(b0.t > a0.t)) return;
+  const Sample* pts[3] = {&a0, &mid, &b0};
   for (auto& b : bounds_) {
     double g[3];
     for (int k = 0; k < 3; ++k) {
-      g[k] = margin(b, pts[k]);
-      visit(b, pts[k], g[k]);
+      g[k] = margin(b, *pts[k]);
+      visit(b, *pts[k], g[k]);
     }
     auto leave = [&](double t) {
       if (b.outside) return;
@@ -129,7 +136,7 @@ void RangeWatch::step(double ta, double tb, const std::function<Sample(double)>&
       }
     };
     for (int k = 0; k < 2; ++k) {
-      const double a = pts[k].t, z = pts[k + 1].t;
+      const double a = pts[k]->t, z = pts[k + 1]->t;
       const bool out_a = g[k] < 0.0, out_z = g[k + 1] < 0.0;
       if (out_a) leave(a);  // outside at a point the watch had not seen it leave
       if (out_a == out_z) {

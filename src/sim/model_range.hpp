@@ -39,6 +39,9 @@ class RangeWatch {
   void start(const Sample& s, int phase = -1);
   /// One accepted step [ta, tb] with its dense output (a StepHook's arguments).
   void step(double ta, double tb, const std::function<Sample(double)>& at, int phase = -1);
+  /// The same with the samples at ta, the middle and tb already evaluated.
+  void step(const Sample& a, const Sample& mid, const Sample& b, const std::function<Sample(double)>& at,
+            int phase = -1);
   /// The bounds that were left, in the order the run left them.
   std::vector<Excursion> excursions() const;
 
@@ -46,6 +49,7 @@ class RangeWatch {
   struct Bound {
     Excursion e;
     std::function<double(const Sample&)> value;
+    bool below = false;  ///< e.side == "below", kept for the hot path
     bool outside = false;
   };
   /// > 0 inside, ≤ 0 on or beyond the bound.
