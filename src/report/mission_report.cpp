@@ -224,6 +224,7 @@ nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim
   j["rules"] = rules;
   j["model_range"] = {{"coverage", coverage_json(m.pack.cell)},
                       {"soc_floor_covered", r.soc_floor_covered},
+                      {"accept_extrapolation", r.accept_extrapolation},
                       {"excursions", excursions_json(r.excursions, true)}};
   return j;
 }

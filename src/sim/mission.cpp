@@ -220,6 +220,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
   const double rated_Ah = m.pack.cell.capacity_Ah * m.pack.parallel;
   const double cutoff = m.pack.cell.v_cutoff_V;
   out.soc_floor_covered = m.pack.cell.soc_floor_covered();
+  out.accept_extrapolation = opts.accept_extrapolation;
   const double stop_floor = opts.stop_at_coverage && out.soc_floor_covered > 0 ? out.soc_floor_covered : -1.0;
   RangeWatch watch(pack);
   out.pack_mass_kg = m.pack.mass_kg();

@@ -134,6 +134,7 @@ struct MissionResult {
   std::vector<RuleCheck> rules;
   double soc_floor_covered = 0.0;     ///< battery::Cell::soc_floor_covered of the pack's cell
   std::vector<Excursion> excursions;  ///< where the flight left the model's range
+  bool accept_extrapolation = false;  ///< SimOptions::accept_extrapolation of this run
   bool go = false;
   std::vector<TracePoint> trace;
 };

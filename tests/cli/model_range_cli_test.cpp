@@ -146,6 +146,8 @@ TEST_CASE("fly: a landing below the covered SoC fails the soc_covered rule unles
   CHECK(a.exit_code == 0);
   const json k = json::parse(a.out);
   CHECK_FALSE(rule(k, "soc_covered"));
+  CHECK(k["model_range"]["accept_extrapolation"] == true);
+  CHECK(j["model_range"]["accept_extrapolation"] == false);
   CHECK(k["verdict"] == "go");
   CHECK(k["verdict_text"].get<std::string>().find("outside the model's data") != std::string::npos);
   CHECK(k["landing"]["reserve_time_s"].get<double>() > 0.0);
