@@ -1,6 +1,7 @@
 #pragma once
 /// One cell's equivalent-circuit parameters (Thevenin model with up to two RC pairs).
 /// Plain data, SI inside; tables over state of charge (0..1) or temperature (°C).
+#include <algorithm>
 #include <optional>
 #include <string>
 #include <vector>
@@ -33,6 +34,20 @@ struct Thermal {
 /// discharging lithium cells (common practice; the maker's own figure comes first).
 inline constexpr double kCellHotC = 60.0;
 
+/// The ranges the data a cell model was fitted on covered (cell JSON key "coverage", written by
+/// `fit cell`): outside them the model's figures are extrapolated. Every field is optional in
+/// the file; an absent SoC bound is the end of the SoC scale, an absent current or temperature
+/// bound is no claim. Current per cell, discharge positive.
+struct CellCoverage {
+  double soc_min = 0.0;                     ///< lowest SoC the data reached, 0..1
+  double soc_max = 1.0;                     ///< highest SoC the data reached, 0..1
+  std::optional<double> current_max_A;      ///< largest discharge current, A
+  std::optional<double> current_min_A;      ///< most negative current (largest charge), A
+  std::optional<double> temperature_min_C;  ///< °C
+  std::optional<double> temperature_max_C;  ///< °C
+  std::string source;                       ///< where the ranges come from, free text
+};
+
 struct Cell {
   std::string name;
   std::string chemistry;
@@ -46,10 +61,18 @@ struct Cell {
   std::vector<RcPair> rc;      ///< zero, one or two RC pairs
   std::optional<TemperatureEffect> temperature;
   std::optional<Thermal> thermal;  ///< none: the cell stays at the pack temperature
+  std::optional<CellCoverage> coverage;  ///< none: not recorded (a hand-written model)
 
   /// Resistance multiplier at `temperature_C` (1 without a temperature table).
   double r_factor(double temperature_C) const {
     return temperature ? temperature->r_factor(temperature_C) : 1.0;
+  }
+  /// Lowest SoC the model rests on data for: the coverage's soc_min, or the OCV table's first
+  /// SoC when that is higher (below it the table is held flat, an invented OCV); a constant OCV
+  /// claims every SoC.
+  double soc_floor_covered() const {
+    const double table_lo = ocv_V.is_constant() ? 0.0 : ocv_V.x().front();
+    return coverage ? std::max(coverage->soc_min, table_lo) : table_lo;
   }
   /// Capacity multiplier at `temperature_C` (1 without a temperature table).
   double capacity_factor(double temperature_C) const {

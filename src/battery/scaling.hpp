@@ -3,7 +3,7 @@
 /// same kind of cell: capacity, mass and current limit scale with size k = Q'/Q, resistances
 /// scale with 1/k (a bigger cell is more electrode area in parallel), time constants and the
 /// OCV curve stay; a thermal model keeps its specific heat and its hA grows as k^(2/3) (the
-/// surface). A first-order rule of thumb (common practice), not a cell maker's data.
+/// surface); covered currents scale with k. A first-order rule of thumb (common practice), not a cell maker's data.
 #include "battery/cell.hpp"
 
 namespace sortie::battery {

@@ -7,6 +7,7 @@
 
 #include "cli/commands.hpp"
 #include "cli/number_option.hpp"
+#include "cli/coverage_options.hpp"
 #include "cli/report_output.hpp"
 #include "core/error.hpp"
 #include "core/text.hpp"
@@ -28,6 +29,7 @@ struct CompareOptions {
   std::vector<int> series, parallel{1};
   std::vector<double> capacity_Ah;
   bool quiet = false;
+  bool stop_at_coverage = false, accept_extrapolation = false;
   ReportOutput report;
 };
 
@@ -56,7 +58,10 @@ int run_compare(const CompareOptions& o) {
     const battery::Cell cell = o.cell.empty() ? lp.mission.pack.cell : io::load_cell_file(o.cell);
     cands = sim::pack_grid(cell, lp.mission.pack, o.series, o.capacity_Ah, o.parallel);
   }
-  const auto rows = sim::compare_packs(lp.mission, cands, progress_bar);
+  sim::SimOptions so;
+  so.stop_at_coverage = o.stop_at_coverage;
+  so.accept_extrapolation = o.accept_extrapolation;
+  const auto rows = sim::compare_packs(lp.mission, cands, progress_bar, so);
   const std::string html = o.report.html_file.empty() ? "" : report::compare_html(lp.mission, rows);
   if (!o.json_file.empty()) io::write_output(o.json_file, report::compare_json(lp.mission, rows).dump(2) + "\n");
   if (!o.report.html_file.empty()) io::write_output(o.report.html_file, html);
@@ -97,6 +102,7 @@ void add_compare_command(CLI::App& app, int& exit_code) {
   pk->excludes(se)->excludes(ca);
   c->add_option("--json", o->json_file, "write the ranked rows as JSON to FILE, or - for standard output")->check(output_path());
   add_report_options(c, o->report, {"text", "json", "csv"});
+  add_coverage_options(c, o->stop_at_coverage, o->accept_extrapolation);
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
   c->callback([o, &exit_code] {
     if (o->packs.empty() && (o->series.empty() || o->capacity_Ah.empty()))

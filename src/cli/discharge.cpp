@@ -29,6 +29,7 @@ struct DischargeOptions {
   double sample_s = 1.0;
   std::string json_file, trace_file;
   bool quiet = false;
+  bool stop_at_coverage = false;
   ReportOutput report;
 };
 
@@ -51,6 +52,7 @@ int run_discharge(const DischargeOptions& o) {
                      format_number(spec.cutoff_cell_V) + " V, expected below " +
                      format_number(pack.cell.v_max_V) + " V)");
   spec.soc_floor = o.soc_floor;
+  spec.stop_at_coverage = o.stop_at_coverage;
   spec.sample_s = o.trace_file.empty() && o.report.html_file.empty() && o.report.format != "csv" ? 0.0 : o.sample_s;
   std::string label;
   if (o.current_A) {
@@ -102,6 +104,9 @@ void add_discharge_command(CLI::App& app, int& exit_code) {
   c->add_option("--soc0", o->soc0, "initial state of charge, 0..1 (default: the pack's)")->check(number_in(between(0.0, 1.0, "")));
   c->add_option("--soc-floor", o->soc_floor, "state of charge that ends the run, 0..1 (default 0)")
       ->check(number_in(between(0.0, 1.0, "")));
+  c->add_flag("--stop-at-coverage", o->stop_at_coverage,
+              "end the run where the state of charge falls below the lowest the cell model has data for "
+              "(its coverage soc_min, or its OCV table's first point)");
   c->add_option("--temperature-C", o->temperature_C, "cell temperature (at the start, with a thermal model), °C (default: the pack's)")
       ->check(number_in(between(-60.0, 100.0, "°C")));
   c->add_option("--air-C", o->air_C,

@@ -3,6 +3,7 @@
 
 #include "cli/commands.hpp"
 #include "cli/number_option.hpp"
+#include "cli/coverage_options.hpp"
 #include "cli/report_output.hpp"
 #include "cli/run.hpp"
 #include "core/error.hpp"
@@ -23,6 +24,7 @@ struct FlyOptions {
   std::string profile, pack, json_file, trace_file;
   double sample_s = 1.0;
   bool quiet = false;
+  bool stop_at_coverage = false, accept_extrapolation = false;
   ReportOutput report;
 };
 
@@ -31,12 +33,16 @@ int run_fly(const FlyOptions& o) {
   const io::LoadedProfile lp = io::load_profile_file(o.profile, o.pack);
   sim::SimOptions so;
   so.sample_s = o.trace_file.empty() && o.report.html_file.empty() ? 0.0 : o.sample_s;
+  so.stop_at_coverage = o.stop_at_coverage;
+  so.accept_extrapolation = o.accept_extrapolation;
   sim::MissionResult r = sim::simulate(lp.mission, so);
   if (r.refused) throw InputError(io::refusal_message(lp, r));
   r.best_speeds = sim::best_speeds(lp.mission);
   if (lp.mission.environment.wind.speed_mps > 0.0)
     r.best_speeds_headwind = sim::best_speeds(lp.mission, 0.0, lp.mission.environment.wind.speed_mps, 0.0);
-  const sim::SpareResult spare = sim::solve_spare(lp.mission, r);
+  sim::SpareOptions spare_opts;
+  spare_opts.sim = so;
+  const sim::SpareResult spare = sim::solve_spare(lp.mission, r, spare_opts);
   // Every output is made before the first is written.
   const std::string html = o.report.html_file.empty() ? "" : report::fly_html(lp.mission, r, spare);
   if (!o.json_file.empty())
@@ -60,6 +66,7 @@ void add_fly_command(CLI::App& app, int& exit_code) {
   c->add_option("--trace", o->trace_file, "write a CSV trace to FILE")->check(output_path());
   add_report_options(c, o->report, {"text", "json", "csv"});
   c->add_option("--sample-s", o->sample_s, "trace spacing, s, for --trace and --html (default 1)")->check(number_in(between(1e-3, 1e6, "s")));
+  add_coverage_options(c, o->stop_at_coverage, o->accept_extrapolation);
   c->add_flag("--quiet,-q", o->quiet, "print nothing; the exit code tells go (0) or no-go (3)");
   c->callback([o, &exit_code] { exit_code = run_fly(*o); });
 }

@@ -4,6 +4,34 @@
 
 namespace sortie::io {
 
+namespace {
+
+/// The "coverage" block: every field optional, each lower bound at most its upper bound.
+battery::CellCoverage read_coverage(ObjectReader v) {
+  battery::CellCoverage cov;
+  cov.soc_min = v.number_or("soc_min", 0.0, between(0.0, 1.0, ""));
+  cov.soc_max = v.number_or("soc_max", 1.0, between(0.0, 1.0, ""));
+  if (cov.soc_max <= cov.soc_min)
+    v.fail("soc_max", "covered SoC range empty", format_number(cov.soc_max),
+           "above soc_min = " + format_number(cov.soc_min));
+  // A cell current beyond 10 kA is a unit slip (mA), not a cell.
+  cov.current_max_A = v.optional_number("current_max_A", between(-1e4, 1e4, "A"));
+  cov.current_min_A = v.optional_number("current_min_A", between(-1e4, 1e4, "A"));
+  if (cov.current_min_A && cov.current_max_A && *cov.current_min_A > *cov.current_max_A)
+    v.fail("current_min_A", "covered current range empty", format_number(*cov.current_min_A) + " A",
+           "at most current_max_A = " + format_number(*cov.current_max_A) + " A");
+  cov.temperature_min_C = v.optional_number("temperature_min_C", between(-60.0, 100.0, "C"));
+  cov.temperature_max_C = v.optional_number("temperature_max_C", between(-60.0, 100.0, "C"));
+  if (cov.temperature_min_C && cov.temperature_max_C && *cov.temperature_min_C > *cov.temperature_max_C)
+    v.fail("temperature_min_C", "covered temperature range empty", format_number(*cov.temperature_min_C) + " C",
+           "at most temperature_max_C = " + format_number(*cov.temperature_max_C) + " C");
+  cov.source = v.string_or("source", "");
+  v.finish();
+  return cov;
+}
+
+}  // namespace
+
 battery::Cell read_cell(ObjectReader& r) {
   battery::Cell c;
   c.name = r.string_or("name", "");
@@ -60,6 +88,7 @@ battery::Cell read_cell(ObjectReader& r) {
     t.finish();
     c.thermal = th;
   }
+  if (r.has("coverage")) c.coverage = read_coverage(r.object("coverage"));
   r.finish();
   return c;
 }

@@ -3,6 +3,7 @@
 #include "core/text.hpp"
 
 #include "report/mission_report.hpp"
+#include "report/model_range_report.hpp"
 #include "report/text_table.hpp"
 
 namespace sortie::report {
@@ -30,6 +31,13 @@ std::string limit_words(const sim::CompareRow& row) {
   return row.spare.binding_rule.empty() ? "" : "then " + rule_words(row.spare.binding_rule) + " binds";
 }
 
+/// limit_words, and the excursions beyond the model's range when there are any.
+std::string limit_cell(const sim::CompareRow& row) {
+  std::string s = limit_words(row);
+  for (const auto& e : row.result.excursions) s += (s.empty() ? "" : "; ") + std::string("outside data: ") + sim::brief(e);
+  return s;
+}
+
 std::string spare_cell(const sim::CompareRow& row) {
   if (row.result.refused || !row.spare.phase) return "-";
   std::string s = fixed(row.spare.spare_s, 0);
@@ -52,7 +60,7 @@ std::string compare_text(const sim::Mission& base, const std::vector<sim::Compar
     t.add_row({std::to_string(++rank), row.candidate.label, r.go ? "go" : "NO-GO", spare_cell(row),
                fixed(r.flight_time_s, 0), r.refused ? "-" : fixed(r.landing.soc * 100, 1), fixed(r.pack_mass_kg, 3),
                fixed(r.all_up_mass_kg, 3), r.refused ? "-" : fixed(r.c_rate_max, 2), r.refused ? "-" : fixed(r.duty_mean * 100, 1),
-               r.refused ? "-" : fixed(r.eta_esc_mean * 100, 1), limit_words(row)});
+               r.refused ? "-" : fixed(r.eta_esc_mean * 100, 1), limit_cell(row)});
   }
   out += t.render();
   out += "\nAn estimate from models, not a clearance to fly: follow local aviation rules and the\n"
@@ -86,7 +94,9 @@ nlohmann::json compare_json(const sim::Mission& base, const std::vector<sim::Com
                    {"c_rate_max", r.c_rate_max},
                    {"duty_mean", r.duty_mean},
                    {"eta_esc_mean", r.eta_esc_mean},
-                   {"limit", limit_words(row)}});
+                   {"limit", limit_words(row)},
+                   {"model_range", {{"soc_floor_covered", r.soc_floor_covered},
+                                    {"excursions", excursions_json(r.excursions, true)}}}});
   }
   j["rows"] = arr;
   return j;

@@ -4,6 +4,7 @@
 
 #include <cmath>
 
+#include "report/model_range_report.hpp"
 #include "report/text_table.hpp"
 
 namespace sortie::report {
@@ -35,6 +36,8 @@ const char* reason_words(sim::EndReason r) {
     case sim::EndReason::soc_floor: return "state of charge reached the floor";
     case sim::EndReason::power_collapse: return "power collapse: the pack cannot deliver the power asked for";
     case sim::EndReason::load_end: return "the load profile ended";
+    case sim::EndReason::pack_full: return "the charging load brought the pack to full";
+    case sim::EndReason::coverage_floor: return "state of charge reached the lowest the cell model has data for";
   }
   return "";
 }
@@ -48,6 +51,9 @@ std::string discharge_text(const battery::Pack& pack, const std::string& load_la
   KeyValues kv;
   kv.add("time to end", fixed(r.time_to_end_s, 1) + " s  (" + duration_hms(r.time_to_end_s) + ")");
   kv.add("ended because", reason_words(r.end_reason));
+  if (r.end_reason == sim::EndReason::power_collapse)
+    kv.add("power", fixed(r.power_asked_W, 1) + " W asked, at most " + fixed(r.power_max_W, 1) +
+                        " W at the end state (E²/(4·R0))");
   kv.add("charge delivered", fixed(r.charge_Ah, 3) + " Ah");
   kv.add("energy delivered", fixed(r.energy_Wh, 2) + " Wh");
   kv.add("minimum loaded voltage", fixed(r.v_min_V, 3) + " V  (" + fixed(r.v_min_V / pack.series, 3) + " V per cell)");
@@ -66,6 +72,7 @@ std::string discharge_text(const battery::Pack& pack, const std::string& load_la
     warned = true;
     out += "  at " + fixed(e.t_s, 1) + " s: " + e.detail + "\n";
   }
+  if (!r.excursions.empty()) out += "\n" + excursions_text(r.excursions);
   out += "\nAn estimate from a model, not a guarantee: respect the cell maker's limits.\n";
   return out;
 }
@@ -93,6 +100,13 @@ nlohmann::json discharge_json(const battery::Pack& pack, const std::string& load
   if (r.thermal)
     j["cell_temperature_C"] = {{"start", pack.temperature_C}, {"end", r.temperature_end_C}, {"max", r.temperature_max_C},
                                {"air", r.air_C}};
+  if (r.end_reason == sim::EndReason::power_collapse) {
+    j["power_asked_W"] = r.power_asked_W;
+    j["power_max_W"] = r.power_max_W;
+  }
+  j["model_range"] = {{"coverage", coverage_json(pack.cell)},
+                      {"soc_floor_covered", r.soc_floor_covered},
+                      {"excursions", excursions_json(r.excursions, false)}};
   nlohmann::json ev = nlohmann::json::array();
   for (const auto& e : r.events) ev.push_back({{"t_s", e.t_s}, {"kind", e.kind}, {"detail", e.detail}});
   j["events"] = ev;

@@ -25,6 +25,8 @@ const char* end_words(sim::EndReason e) {
     case sim::EndReason::soc_floor: return "The state of charge reached the floor";
     case sim::EndReason::power_collapse: return "Power collapse: the pack could not deliver the power asked for";
     case sim::EndReason::load_end: return "The load profile ended";
+    case sim::EndReason::pack_full: return "The charging load brought the pack to full";
+    case sim::EndReason::coverage_floor: return "The state of charge reached the lowest the cell model has data for";
   }
   return "";
 }

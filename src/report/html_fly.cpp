@@ -221,7 +221,7 @@ std::string rules_table(const sim::MissionResult& r) {
   html::Table t({"rule", "required", "actual", "margin", "result"});
   for (const auto& rule : r.rules) {
     const std::string k = "rules." + rule.name + ".";
-    std::string margin = rule.name == "soc_min" ? fixed(rule.margin * 100, 1) + " %" : rule_value(rule, rule.margin);
+    std::string margin = rule.name == "soc_min" || rule.name == "soc_covered" ? fixed(rule.margin * 100, 1) + " %" : rule_value(rule, rule.margin);
     if (rule.margin > 0 && margin[0] != '-' && margin.find_first_not_of("0. %sV") != std::string::npos) margin = "+" + margin;
     t.add_row({text_cell(rule_words(rule.name)), number_cell(rule_value(rule, rule.required), k + "required"),
                number_cell(rule_value(rule, rule.actual), k + "actual"), number_cell(margin, k + "margin"),

@@ -1,12 +1,14 @@
 #include "report/mission_report.hpp"
 
-#include "core/text.hpp"
-
+#include <algorithm>
 #include <cmath>
+
+#include "core/text.hpp"
 
 #include "flight/atmosphere.hpp"
 #include "report/best_speeds_report.hpp"
 #include "report/discharge_report.hpp"
+#include "report/model_range_report.hpp"
 #include "report/text_table.hpp"
 
 namespace sortie::report {
@@ -24,6 +26,7 @@ std::string phase_name(const sim::Mission& m, int i) {
 std::string rule_words(const std::string& name) {
   if (name == "mission_flown") return "whole mission flown";
   if (name == "soc_min") return "charge at landing";
+  if (name == "soc_covered") return "charge at landing within the cell model's data";
   if (name == "hover_s") return "time on station left at landing";
   if (name == "v_rest_cell_min_V") return "resting cell voltage at landing";
   if (name == "v_load_cell_min_V") return "loaded cell voltage in flight";
@@ -31,11 +34,22 @@ std::string rule_words(const std::string& name) {
 }
 
 std::string rule_value(const sim::RuleCheck& r, double v) {
-  if (r.name == "soc_min") return fixed(v * 100.0, 1) + " %";
+  if (r.name == "soc_min" || r.name == "soc_covered") return fixed(v * 100.0, 1) + " %";
   if (r.unit == "V") return fixed(v, 3) + " V";
   if (r.unit == "s") return fixed(v, 0) + " s";
   return fixed(v, 3);
 }
+
+namespace {
+/// The excursions beyond the model's range, appended to the verdict: a verdict never rests on
+/// an extrapolated figure without saying so.
+std::string model_range_note(const MissionResult& r) {
+  if (r.excursions.empty()) return "";
+  std::string s = " [outside the model's data: ";
+  for (std::size_t k = 0; k < r.excursions.size(); ++k) s += (k ? "; " : "") + sim::brief(r.excursions[k]);
+  return s + "]";
+}
+}  // namespace
 
 std::string verdict_line(const sim::Mission& m, const MissionResult& r, const sim::SpareResult& s) {
   if (r.go) {
@@ -44,7 +58,7 @@ std::string verdict_line(const sim::Mission& m, const MissionResult& r, const si
       line += "; " + duration_hms(s.spare_s) + " to spare on phase " + phase_name(m, static_cast<int>(*s.phase));
       if (!s.binding_rule.empty()) line += " (then " + rule_words(s.binding_rule) + " binds)";
     }
-    return line;
+    return line + model_range_note(r);
   }
   std::string why;
   if (!r.completed) {
@@ -62,7 +76,7 @@ std::string verdict_line(const sim::Mission& m, const MissionResult& r, const si
     line += s.bounded ? "; shorten phase " + phase_name(m, static_cast<int>(*s.phase)) + " by " + duration_hms(-s.spare_s)
                       : "; " + s.note;
   }
-  return line;
+  return line + model_range_note(r);
 }
 
 std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::SpareResult& s) {
@@ -122,7 +136,13 @@ std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::S
                                      " °C at landing, highest " + fixed(r.temperature_max_C, 1) + " °C (air " +
                                      fixed(r.air_C, 1) + " °C)");
   land.add("mean duty, mean ESC efficiency", fixed(r.duty_mean * 100, 1) + " %, " + fixed(r.eta_esc_mean * 100, 1) + " %");
-  if (m.reserve.hover_s) land.add("time on station left at landing", fixed(r.reserve_time_s, 0) + " s");
+  if (m.reserve.hover_s) {
+    // Counted down to the covered SoC floor while the rule soc_covered holds the verdict to it.
+    const bool to_floor = std::any_of(r.rules.begin(), r.rules.end(), [](const sim::RuleCheck& c) { return c.name == "soc_covered"; });
+    land.add("time on station left at landing",
+             fixed(r.reserve_time_s, 0) + " s" +
+                 (to_floor ? " (down to " + fixed(r.soc_floor_covered * 100, 1) + " % charge, the lowest the cell model has data for)" : ""));
+  }
   if (s.phase)
     land.add("spare time", (s.spare_s >= 0 ? "+" : "") + fixed(s.spare_s, 0) + " s on phase " +
                                phase_name(m, static_cast<int>(*s.phase)) +
@@ -133,13 +153,14 @@ std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::S
   out += "reserve rules\n";
   TextTable rt({"rule", "required", "actual", "margin", "result"});
   for (const auto& rule : r.rules) {
-    std::string margin = rule.name == "soc_min" ? fixed(rule.margin * 100, 1) + " %" : rule_value(rule, rule.margin);
+    std::string margin = rule.name == "soc_min" || rule.name == "soc_covered" ? fixed(rule.margin * 100, 1) + " %" : rule_value(rule, rule.margin);
     if (rule.margin > 0 && margin[0] != '-') margin = "+" + margin;
     rt.add_row({rule_words(rule.name), rule_value(rule, rule.required), rule_value(rule, rule.actual), margin,
                 rule.pass ? "pass" : "FAIL"});
   }
   out += rt.render() + "\n";
 
+  if (!r.excursions.empty()) out += excursions_text(r.excursions) + "\n";
   if (!r.events.empty()) {
     out += "events\n";
     TextTable et({"t s", "phase", "event", "detail"});
@@ -210,6 +231,10 @@ nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim
     rules.push_back({{"name", rule.name}, {"unit", rule.unit}, {"required", rule.required},
                      {"actual", rule.actual}, {"margin", rule.margin}, {"pass", rule.pass}});
   j["rules"] = rules;
+  j["model_range"] = {{"coverage", coverage_json(m.pack.cell)},
+                      {"soc_floor_covered", r.soc_floor_covered},
+                      {"accept_extrapolation", r.accept_extrapolation},
+                      {"excursions", excursions_json(r.excursions, true)}};
   return j;
 }
 

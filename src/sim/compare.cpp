@@ -28,14 +28,17 @@ std::vector<PackCandidate> pack_grid(const battery::Cell& cell, const battery::P
 }
 
 std::vector<CompareRow> compare_packs(const Mission& base, const std::vector<PackCandidate>& packs,
-                                      const std::function<void(std::size_t, std::size_t)>& progress) {
+                                      const std::function<void(std::size_t, std::size_t)>& progress,
+                                      const SimOptions& opts) {
+  SpareOptions spare_opts;
+  spare_opts.sim = opts;
   std::vector<CompareRow> rows;
   rows.reserve(packs.size());
   for (const auto& c : packs) {
     Mission m = base;
     m.pack = c.pack;
-    CompareRow row{c, simulate(m), {}};
-    row.spare = solve_spare(m, row.result);
+    CompareRow row{c, simulate(m, opts), {}};
+    row.spare = solve_spare(m, row.result, spare_opts);
     rows.push_back(std::move(row));
     if (progress) progress(rows.size(), packs.size());
   }

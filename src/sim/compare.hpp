@@ -29,6 +29,7 @@ std::vector<PackCandidate> pack_grid(const battery::Cell& cell, const battery::P
 /// Fly the mission with each pack; `progress(done, total)` after each. Ranked: go before
 /// no-go, then by spare time, longest first; refused missions last.
 std::vector<CompareRow> compare_packs(const Mission& base, const std::vector<PackCandidate>& packs,
-                                      const std::function<void(std::size_t, std::size_t)>& progress = {});
+                                      const std::function<void(std::size_t, std::size_t)>& progress = {},
+                                      const SimOptions& opts = {});
 
 }  // namespace sortie::sim

@@ -18,6 +18,8 @@ const char* to_string(EndReason r) {
     case EndReason::soc_floor: return "soc_floor";
     case EndReason::power_collapse: return "power_collapse";
     case EndReason::load_end: return "load_end";
+    case EndReason::pack_full: return "pack_full";
+    case EndReason::coverage_floor: return "coverage_floor";
   }
   return "?";
 }
@@ -37,18 +39,31 @@ Demand series_demand(const LoadSeries& s, std::size_t i) {
 
 }  // namespace
 
+double max_power_W(double emf_V, double r0_ohm) {
+  if (!(emf_V > 0.0)) return 0.0;
+  return emf_V * emf_V / (4.0 * r0_ohm);  // P_max = E²/(4·R0) at I = E/(2·R0)
+}
+
 DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec) {
   const battery::PackModel model(pack);
   const double S = pack.series;
   const double i_limit = pack.cell.i_cont_max_A * pack.parallel;
-  enum : std::size_t { kCutoff, kFloor, kCollapse, kOverCurrent, kCellHot };
-  const std::vector<EventSpec> events = {
+  enum : std::size_t { kCutoff, kFloor, kCollapse, kOverCurrent, kCellHot, kFull, kCoverage };
+  const double covered_floor = pack.cell.soc_floor_covered();
+  const bool stop_at_floor = spec.stop_at_coverage && covered_floor > spec.soc_floor;
+  std::vector<EventSpec> events = {
       {"cutoff_voltage", [&](const Sample& s) { return s.term.v_terminal_V / S - spec.cutoff_cell_V; }, true},
       {"soc_floor", [&](const Sample& s) { return s.x[battery::kSoc] - spec.soc_floor; }, true},
       {"power_collapse", [](const Sample& s) { return s.term.discriminant; }, true},
       {"over_current", [=](const Sample& s) { return i_limit - s.term.current_A; }, false},
       {"cell_hot", [](const Sample& s) { return battery::kCellHotC - s.x[battery::kTemp]; }, false},
+      // A charging current takes the SoC up; at 1 the pack is full and takes no more (charge
+      // forced in beyond that is not stored). Only a charging current can reach it, so the
+      // margin is left positive while the pack discharges (a run may start full).
+      {"pack_full", [](const Sample& s) { return s.term.current_A < 0.0 ? 1.0 - s.x[battery::kSoc] : 1.0; }, true},
   };
+  if (stop_at_floor)
+    events.push_back({"coverage_floor", [=](const Sample& s) { return s.x[battery::kSoc] - covered_floor; }, true});
 
   // Segments: one for a constant load, one per stretch of a series.
   std::vector<std::pair<Demand, double>> segments;  // demand, end time
@@ -83,21 +98,28 @@ DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec) 
   out.thermal = model.thermal;
   out.air_C = model.air_C;
   out.temperature_max_C = model.t0_C;
+  out.soc_floor_covered = covered_floor;
+  RangeWatch watch(pack);
   auto track = [&](const Sample& s) {
     out.v_min_V = std::min(out.v_min_V, s.term.v_terminal_V);
     out.i_max_A = std::max(out.i_max_A, s.term.current_A);
     out.temperature_max_C = std::max(out.temperature_max_C, s.x[battery::kTemp]);
   };
   const StepHook hook = [&](double ta, double tb, const std::function<Sample(double)>& at) {
-    track(at(ta));
-    track(at(0.5 * (ta + tb)));
-    track(at(tb));
+    const Sample a = at(ta), mid = at(0.5 * (ta + tb)), b = at(tb);
+    track(a);
+    track(mid);
+    track(b);
+    watch.step(a, mid, b, at);
   };
 
   Sample end;
   std::optional<std::size_t> stopped;
   bool warned_hot = false;
+  Demand last_demand = segments.front().first;
+  watch.start(Sample{t, x, battery::Thevenin{model, last_demand}.terminal(x, t)});
   for (const auto& [demand, t_end] : segments) {
+    last_demand = demand;
     opts.t_end = t_end;
     SegmentResult seg = run_segment(model, demand, t, x, events, opts, hook);
     opts.steps_done += seg.steps;
@@ -138,6 +160,9 @@ DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec) 
   out.soc_end = end.x[battery::kSoc];
   out.temperature_end_C = end.x[battery::kTemp];
   if (!std::isfinite(out.v_min_V)) out.v_min_V = end.term.v_terminal_V;
+  // A demand the pack cannot meet from the very start leaves the loaded voltage at the vertex
+  // of the power curve, below the cutoff as well: the collapse is the reason.
+  if (stopped && *stopped == kCutoff && end.term.collapsed) stopped = kCollapse;
   std::string detail;
   if (!stopped) {
     out.end_reason = EndReason::load_end;
@@ -148,12 +173,42 @@ DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec) 
   } else if (*stopped == kFloor) {
     out.end_reason = EndReason::soc_floor;
     detail = "state of charge reached " + format_fixed(spec.soc_floor * 100, 1) + " %";
+  } else if (*stopped == kFull) {
+    out.end_reason = EndReason::pack_full;
+    detail = "the charging load brought the pack to full (state of charge 100 %): it takes no more charge";
+  } else if (*stopped == kCoverage) {
+    out.end_reason = EndReason::coverage_floor;
+    detail = "state of charge reached " + format_fixed(covered_floor * 100, 1) +
+             " %, the lowest the cell model rests on data for (--stop-at-coverage)";
   } else {
     out.end_reason = EndReason::power_collapse;
-    detail = "the pack cannot deliver the power asked for: maximum " +
-             format_fixed(end.term.v_terminal_V * end.term.current_A, 1) + " W";
+    // Asked: P = a + a_rate·(t − t0) + b·V; at most E²/(4·R0) with E = S·OCV − v1 − v2.
+    const double emf = end.term.v_ocv_V - end.x[battery::kV1] - end.x[battery::kV2];
+    out.power_max_W = max_power_W(emf, model.r0_pack(end.x[battery::kSoc], end.x[battery::kTemp]));
+    out.power_asked_W = last_demand.a + last_demand.a_rate * (end.t - last_demand.t0) +
+                        last_demand.b * end.term.v_terminal_V;
+    detail = "the pack cannot deliver this power: " + format_fixed(out.power_asked_W, 1) + " W asked, at most " +
+             format_fixed(out.power_max_W, 1) + " W at this state (E²/(4·R0), E = " + format_fixed(emf, 2) +
+             " V, R0 = " + format_fixed(model.r0_pack(end.x[battery::kSoc], end.x[battery::kTemp]) * 1000, 1) +
+             " mΩ)";
+  }
+  out.excursions = watch.excursions();
+  for (auto it = out.excursions.begin(); it != out.excursions.end();) {
+    // A run stopped at the covered floor or at full ends a hair beyond it (the event's time
+    // tolerance): not an excursion, unless the run started there.
+    const bool stop_kind = out.end_reason == EndReason::coverage_floor || out.end_reason == EndReason::pack_full;
+    const bool at_stop = stop_kind && out.time_to_end_s > 0.0 && it->quantity == "soc" && it->at_end &&
+                         it->duration_s < 1e-3;
+    if (at_stop) {
+      it = out.excursions.erase(it);
+      continue;
+    }
+    it->first_s -= t_start;
+    out.events.push_back({it->first_s, "model_range", describe(*it)});
+    ++it;
   }
   out.events.push_back({out.time_to_end_s, to_string(out.end_reason), detail});
+  std::stable_sort(out.events.begin(), out.events.end(), [](const Event& a, const Event& b) { return a.t_s < b.t_s; });
   return out;
 }
 

@@ -4,6 +4,7 @@
 #include <vector>
 
 #include "battery/pack.hpp"
+#include "sim/model_range.hpp"
 #include "sim/segment.hpp"
 
 namespace sortie::sim {
@@ -24,6 +25,9 @@ struct DischargeSpec {
   LoadSeries series;
   double cutoff_cell_V = 0;  ///< loaded cell voltage that ends the discharge, V
   double soc_floor = 0.0;    ///< SoC that ends the discharge
+  /// End the run where the SoC falls to the lowest SoC the cell model rests on data for
+  /// (battery::Cell::soc_floor_covered), as its own end kind.
+  bool stop_at_coverage = false;
   double sample_s = 1.0;     ///< trace spacing, s (0: no trace)
   /// Integration steps in all (LimitError beyond), plus steps_per_stretch for each stretch of a
   /// load series: the stepper starts again at every row of a load file, so a long log needs at
@@ -36,7 +40,10 @@ struct DischargeSpec {
   std::size_t max_samples = 1000000;   ///< trace samples in all (LimitError beyond)
 };
 
-enum class EndReason { cutoff_voltage, soc_floor, power_collapse, load_end };
+/// pack_full: a charging load (negative current or power) brought the SoC to 1, where the
+/// pack takes no more charge. coverage_floor: the SoC reached the covered floor
+/// (DischargeSpec::stop_at_coverage).
+enum class EndReason { cutoff_voltage, soc_floor, power_collapse, load_end, pack_full, coverage_floor };
 const char* to_string(EndReason r);
 
 /// Something that happened, at a time: an end, a warning, a phase boundary.
@@ -57,9 +64,19 @@ struct DischargeResult {
   bool thermal = false;      ///< the cell has a thermal model
   double temperature_end_C = 0.0, temperature_max_C = 0.0;  ///< cell temperature, °C
   double air_C = 0.0;        ///< air the cells give their heat to, °C
+  /// For power_collapse: the power asked for and the most the pack could deliver at that
+  /// state, E²/(4·R0), W.
+  double power_asked_W = 0.0, power_max_W = 0.0;
+  double soc_floor_covered = 0.0;  ///< battery::Cell::soc_floor_covered of the pack's cell
+  std::vector<Excursion> excursions;  ///< where the run left the model's range (times from the start)
   std::vector<Event> events;
   std::vector<Sample> trace;  ///< every sample_s, plus the exact end point
 };
+
+/// The most a pack can deliver at its terminals at EMF E and series resistance R0: V·I with
+/// V = E − R0·I is largest at I = E/(2·R0), where it is E²/(4·R0) (the maximum power transfer
+/// theorem; common practice, and DESIGN.md "Physics": E² < 4·R0·P is power collapse).
+double max_power_W(double emf_V, double r0_ohm);
 
 DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec);
 

@@ -14,6 +14,7 @@
 #include "propulsion/operating_point.hpp"
 #include "sim/best_speeds.hpp"
 #include "sim/drive_solve.hpp"
+#include "sim/discharge.hpp"
 
 namespace sortie::sim {
 
@@ -67,7 +68,7 @@ double reserve_loiter_speed(const flight::FixedWing& w, double mass, double rho)
 }
 
 /// Event indices of one segment's event list.
-enum : std::size_t { kCutoff, kSaturation, kCollapse, kEmpty, kResVLoad, kResSoc, kOverCurrent, kCellHot };
+enum : std::size_t { kCutoff, kSaturation, kCollapse, kEmpty, kResVLoad, kResSoc, kOverCurrent, kCellHot, kCoverage };
 
 struct SegmentSetup {
   battery::Demand demand;
@@ -80,7 +81,9 @@ struct SegmentSetup {
   double motor_in_W = 0.0;    ///< per rotor, V_m·I_m
 };
 
-std::vector<EventSpec> make_events(const Mission& m, const SegmentSetup& s, double cutoff_cell_V) {
+/// `coverage_floor` < 0: no stop at the covered SoC floor.
+std::vector<EventSpec> make_events(const Mission& m, const SegmentSetup& s, double cutoff_cell_V,
+                                   double coverage_floor) {
   const double S = m.pack.series;
   const double d_max = m.drive.esc.duty_max;
   const double vm = s.v_motor_V;
@@ -98,6 +101,7 @@ std::vector<EventSpec> make_events(const Mission& m, const SegmentSetup& s, doub
       {"over_current", [=](const Sample& x) { return i_limit - x.term.current_A; }, false},
       // With a thermal model the cells warm; without one their temperature stays and never crosses.
       {"cell_hot", [](const Sample& x) { return battery::kCellHotC - x.x[battery::kTemp]; }, false},
+      {"coverage_floor", [=](const Sample& x) { return coverage_floor < 0 ? 1.0 : x.x[battery::kSoc] - coverage_floor; }, true},
   };
 }
 
@@ -221,6 +225,10 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
   const double S = m.pack.series;
   const double rated_Ah = m.pack.cell.capacity_Ah * m.pack.parallel;
   const double cutoff = m.pack.cell.v_cutoff_V;
+  out.soc_floor_covered = m.pack.cell.soc_floor_covered();
+  out.accept_extrapolation = opts.accept_extrapolation;
+  const double stop_floor = opts.stop_at_coverage && out.soc_floor_covered > 0 ? out.soc_floor_covered : -1.0;
+  RangeWatch watch(pack);
   out.pack_mass_kg = m.pack.mass_kg();
   out.all_up_mass_kg = flight::all_up_mass_kg(m.airframe, out.pack_mass_kg);
   const auto heights = start_heights(m.phases);
@@ -297,7 +305,8 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
         ps.thrust_per_rotor_N = setup->thrust_N;
         ps.shaft_W = setup->shaft_W;
       }
-      const auto events = make_events(m, *setup, cutoff);
+      const auto events = make_events(m, *setup, cutoff, stop_floor);
+      if (i == 0 && phase_steps == 0) watch.start(Sample{t, x, battery::Thevenin{pm, setup->demand}.terminal(x, t)}, 0);
       SegmentOptions so;
       so.t_end = t + st.duration_s;
       so.sample_s = opts.sample_s;
@@ -320,6 +329,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
         track(a);
         track(mid);
         track(b);
+        watch.step(a, mid, b, at, static_cast<int>(i));
         // ∫ d dt by Simpson's rule on the dense output, d = V_m/V.
         if (vm > 0)
           phase_duty_integral += (tb - ta) / 6.0 *
@@ -374,6 +384,9 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
       if (seg.stopped) {
         stopped = true;
         out.end_phase = static_cast<int>(i);
+        // A demand the pack cannot meet from the start of a stretch leaves the loaded voltage at
+        // the vertex of the power curve, below the cutoff as well: the collapse is the reason.
+        if (*seg.stopped == kCutoff && seg.end.term.collapsed) seg.stopped = kCollapse;
         out.end_kind = events[*seg.stopped].kind;
         const double v = seg.end.term.v_terminal_V;
         if (*seg.stopped == kCutoff) {
@@ -386,7 +399,15 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
                            " N (short by " + format_fixed(need - avail, 2) + " N, " +
                            format_fixed(100 * (need - avail) / need, 1) + " %)";
         } else if (*seg.stopped == kCollapse) {
-          out.end_detail = "power collapse: the pack cannot deliver " + format_fixed(setup->demand.a + setup->demand.b * v, 0) + " W";
+          // At most E²/(4·R0) at the terminals, E = S·OCV − v1 − v2 (sim/discharge.hpp max_power_W).
+          const double emf = seg.end.term.v_ocv_V - seg.end.x[battery::kV1] - seg.end.x[battery::kV2];
+          const double p_max = max_power_W(emf, pm.r0_pack(seg.end.x[battery::kSoc], seg.end.x[battery::kTemp]));
+          out.end_detail = "power collapse: the pack cannot deliver this power: " +
+                           format_fixed(setup->demand.a + setup->demand.b * v, 0) + " W asked, at most " +
+                           format_fixed(p_max, 0) + " W at this state (E²/(4·R0))";
+        } else if (*seg.stopped == kCoverage) {
+          out.end_detail = "state of charge reached " + format_fixed(out.soc_floor_covered * 100, 1) +
+                           " %, the lowest the cell model has data for (stop at coverage)";
         } else {
           out.end_detail = "the pack is empty (state of charge 0)";
         }
@@ -437,6 +458,17 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
     last.height_m = last_h;
     out.trace.push_back(last);
   }
+  out.excursions = watch.excursions();
+  for (auto it = out.excursions.begin(); it != out.excursions.end();) {
+    // Stopped at the covered floor, the flight ends a hair below it (the event's time
+    // tolerance): not an excursion.
+    if (out.end_kind == "coverage_floor" && t > 0 && it->quantity == "soc" && it->at_end && it->duration_s < 1e-3) {
+      it = out.excursions.erase(it);
+      continue;
+    }
+    out.events.push_back({it->first_s, "model_range", it->phase, describe(*it)});
+    ++it;
+  }
   std::stable_sort(out.events.begin(), out.events.end(),
                    [](const MissionEvent& a, const MissionEvent& b) { return a.t_s < b.t_s; });
 
@@ -477,8 +509,9 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
     const auto setup = setup_stretch(m, hold, 0.0, out.all_up_mass_kg, why, field, ignored);
     if (setup) {
       const double floor_v = std::max(cutoff, m.reserve.v_load_cell_min_V.value_or(0.0));
-      auto ev = make_events(m, *setup, floor_v);
-      ev.resize(kEmpty + 1);  // terminal events only
+      // Down to the covered SoC floor only, unless extrapolation is accepted.
+      auto ev = make_events(m, *setup, floor_v, opts.accept_extrapolation ? -1.0 : out.soc_floor_covered);
+      ev.erase(ev.begin() + kEmpty + 1, ev.begin() + kCoverage);  // terminal events only
       SegmentOptions so;
       // No end time: the hover or loiter draws power, so the floor, saturation, power collapse
       // or the empty pack always ends the run; the step cap bounds it.
@@ -498,6 +531,9 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
   rule("mission_flown", "s", planned_total, out.flight_time_s);
   out.rules.back().pass = out.completed;
   if (m.reserve.soc_min) rule("soc_min", "", *m.reserve.soc_min, out.completed ? out.landing.soc : 0.0);
+  // Below the covered floor the OCV is invented: a landing there fails unless accepted.
+  if (out.soc_floor_covered > 0 && !opts.accept_extrapolation)
+    rule("soc_covered", "", out.soc_floor_covered, out.completed ? out.landing.soc : 0.0);
   if (m.reserve.hover_s) rule("hover_s", "s", *m.reserve.hover_s, out.completed ? out.reserve_time_s : 0.0);
   if (m.reserve.v_rest_cell_min_V)
     rule("v_rest_cell_min_V", "V", *m.reserve.v_rest_cell_min_V, out.completed ? out.landing.v_rest_cell_V : 0.0);
@@ -550,7 +586,7 @@ std::pair<double, std::string> smallest_margin(const Mission& m, const MissionRe
   consider((m.drive.esc.duty_max - duty_max) / m.drive.esc.duty_max, "saturation");
   for (const auto& rule : r.rules) {
     if (rule.name == "mission_flown") continue;
-    const double scale = rule.name == "soc_min" ? 1.0 : rule.name == "hover_s" ? std::max(rule.required, 60.0)
+    const double scale = rule.name == "soc_min" || rule.name == "soc_covered" ? 1.0 : rule.name == "hover_s" ? std::max(rule.required, 60.0)
                                                                                : rule.required;
     consider(rule.margin / scale, rule.name);
   }

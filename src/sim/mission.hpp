@@ -14,6 +14,7 @@
 #include "flight/mission.hpp"
 #include "propulsion/drive.hpp"
 #include "sim/best_speeds.hpp"
+#include "sim/model_range.hpp"
 #include "sim/segment.hpp"
 
 namespace sortie::sim {
@@ -38,6 +39,13 @@ struct SimOptions {
   /// landing (LimitError naming the phase beyond).
   std::size_t max_steps_per_phase = 100000;
   std::size_t max_trace_samples = 1000000;  ///< trace points of the whole flight (LimitError beyond)
+  /// End the flight where the SoC falls to the lowest SoC the cell model rests on data for
+  /// (battery::Cell::soc_floor_covered), as end kind coverage_floor.
+  bool stop_at_coverage = false;
+  /// Let the verdict rest on the model below that floor: without it the landing SoC must stay
+  /// at or above the floor (rule soc_covered) and the time on station left at landing is
+  /// counted down to the floor only.
+  bool accept_extrapolation = false;
 };
 
 struct PhaseSummary {
@@ -101,7 +109,7 @@ struct Landing {
 
 struct MissionResult {
   bool completed = false;       ///< every phase flown to its end
-  std::string end_kind;         ///< when not completed: cutoff_voltage | saturation | power_collapse | soc_floor | refused
+  std::string end_kind;         ///< when not completed: cutoff_voltage | saturation | power_collapse | soc_floor | coverage_floor | refused
   std::string end_detail;
   int end_phase = -1;
   bool refused = false;         ///< a phase asks for something the airframe or drive cannot do
@@ -129,6 +137,9 @@ struct MissionResult {
   std::vector<PhaseSummary> phases;
   std::vector<MissionEvent> events;
   std::vector<RuleCheck> rules;
+  double soc_floor_covered = 0.0;     ///< battery::Cell::soc_floor_covered of the pack's cell
+  std::vector<Excursion> excursions;  ///< where the flight left the model's range
+  bool accept_extrapolation = false;  ///< SimOptions::accept_extrapolation of this run
   bool go = false;
   std::vector<TracePoint> trace;
 };

@@ -286,4 +286,54 @@ TEST_CASE("stored energy integrates the OCV table exactly") {
   CHECK(sim::stored_energy_Wh(p, 0.5) == doctest::Approx(3 * 2.0 * (3.0 * 0.5 + 1.2 * 0.125)).epsilon(1e-12));
 }
 
+
+TEST_CASE("mission below the covered SoC: the excursion time agrees with the trace and with a stop at the floor") {
+  // The floor is put halfway between the start and the landing SoC of the plain flight, so the
+  // flight crosses it. Three independent views of the crossing: the excursion's first_s lies
+  // between the trace samples either side of the floor (0.25 s apart); the SoC falls all the way
+  // (dSoC/dt = −I/C < 0), so the time outside is the rest of the flight; and a flight stopped at
+  // the floor ends at that same time, to the 0.1 ms the events are located to.
+  sim::Mission m = quad_mission();
+  const auto plain = sim::simulate(m);
+  REQUIRE(plain.completed);
+  const double floor = 0.5 * (1.0 + plain.landing.soc);
+  m.pack.cell.coverage = battery::CellCoverage{};
+  m.pack.cell.coverage->soc_min = floor;
+  sim::SimOptions so;
+  so.sample_s = 0.25;
+  const auto r = sim::simulate(m, so);
+  REQUIRE(r.excursions.size() == 1);
+  const auto& e = r.excursions.front();
+  CHECK(e.quantity == "soc");
+  CHECK(e.extreme == doctest::Approx(r.landing.soc).epsilon(1e-9));
+  CHECK(std::fabs(e.duration_s - (r.flight_time_s - e.first_s)) < 1e-3);
+  double before = 0.0, after = r.flight_time_s;
+  for (const auto& tp : r.trace) {
+    if (tp.s.x[battery::kSoc] >= floor) before = tp.s.t;
+    else after = std::min(after, tp.s.t);
+  }
+  CHECK(e.first_s >= before);
+  CHECK(e.first_s <= after);
+  CHECK(after - before <= 0.25 + 1e-9);
+  CHECK(e.phase >= 0);
+  // The safe default: the landing below the floor fails soc_covered; accepted, the rule goes.
+  bool rule_failed = false;
+  for (const auto& rule : r.rules) rule_failed = rule_failed || (rule.name == "soc_covered" && !rule.pass);
+  CHECK(rule_failed);
+  CHECK_FALSE(r.go);
+  sim::SimOptions accept;
+  accept.accept_extrapolation = true;
+  const auto a = sim::simulate(m, accept);
+  for (const auto& rule : a.rules) CHECK(rule.name != "soc_covered");
+  CHECK(a.reserve_time_s > r.reserve_time_s);
+
+  sim::SimOptions stop;
+  stop.stop_at_coverage = true;
+  const auto s = sim::simulate(m, stop);
+  CHECK_FALSE(s.completed);
+  CHECK(s.end_kind == "coverage_floor");
+  CHECK(s.landing.soc == doctest::Approx(floor).epsilon(1e-6));
+  CHECK(std::fabs(s.flight_time_s - e.first_s) < 1e-3);
+  CHECK(s.excursions.empty());
+}
 }  // TEST_SUITE
