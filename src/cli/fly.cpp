@@ -11,6 +11,7 @@
 #include "report/mission_report.hpp"
 #include "report/result_csv.hpp"
 #include "sim/mission.hpp"
+#include "sim/turn_home.hpp"
 
 namespace sortie::cli {
 
@@ -31,15 +32,16 @@ int run_fly(const FlyOptions& o) {
   const sim::MissionResult r = sim::simulate(lp.mission, so);
   if (r.refused) throw InputError(io::refusal_message(lp, r));
   const sim::SpareResult spare = sim::solve_spare(lp.mission, r);
+  const sim::TurnHome home = sim::solve_turn_home(lp.mission);
   // Every output is made before the first is written.
-  const std::string html = o.report.html_file.empty() ? "" : report::fly_html(lp.mission, r, spare);
+  const std::string html = o.report.html_file.empty() ? "" : report::fly_html(lp.mission, r, spare, &home);
   if (!o.json_file.empty())
-    io::write_output(o.json_file, report::fly_json(lp.mission, r, spare).dump(2) + "\n");
-  if (!o.trace_file.empty()) io::write_output(o.trace_file, report::fly_trace_csv(r));
+    io::write_output(o.json_file, report::fly_json(lp.mission, r, spare, &home).dump(2) + "\n");
+  if (!o.trace_file.empty()) io::write_output(o.trace_file, report::fly_trace_csv(r, &home));
   if (!o.report.html_file.empty()) io::write_output(o.report.html_file, html);
-  if (print && o.report.format == "json") std::cout << report::fly_json(lp.mission, r, spare).dump(2) << "\n";
+  if (print && o.report.format == "json") std::cout << report::fly_json(lp.mission, r, spare, &home).dump(2) << "\n";
   if (print && o.report.format == "csv") std::cout << report::fly_phases_csv(lp.mission, r);
-  if (print && o.report.format == "text") std::cout << report::fly_text(lp.mission, r, spare);
+  if (print && o.report.format == "text") std::cout << report::fly_text(lp.mission, r, spare, &home);
   return r.go ? kExitOk : kExitNoGo;
 }
 

@@ -23,6 +23,13 @@ namespace {
 constexpr double kInf = std::numeric_limits<double>::infinity();
 
 
+/// `v` with `sig` significant digits in fixed notation ("0" for zero).
+std::string format_significant(double v, int sig) {
+  if (v == 0.0 || !std::isfinite(v)) return format_fixed(v, 0);
+  const int mag = static_cast<int>(std::floor(std::log10(std::fabs(v))));
+  return format_fixed(v, std::clamp(sig - 1 - mag, 0, 12));
+}
+
 bool is_multirotor(const flight::Airframe& a) { return std::holds_alternative<flight::Multirotor>(a); }
 
 /// Height above the field at the start of each phase, and at the end of the last.
@@ -65,7 +72,7 @@ double reserve_loiter_speed(const flight::FixedWing& w, double mass, double rho)
 }
 
 /// Event indices of one segment's event list.
-enum : std::size_t { kCutoff, kSaturation, kCollapse, kEmpty, kResVLoad, kResSoc, kOverCurrent, kCellHot };
+enum : std::size_t { kCutoff, kSaturation, kCollapse, kEmpty, kResVLoad, kResSoc, kOverCurrent, kCellHot, kUnderCurrent };
 
 struct SegmentSetup {
   battery::Demand demand;
@@ -75,6 +82,7 @@ struct SegmentSetup {
   double rho = 1.225;
   double shaft_W = 0.0;       ///< per rotor
   double motor_in_W = 0.0;    ///< per rotor, V_m·I_m
+  double i_motor_A = 0.0;     ///< per rotor: the motor's and the ESC's output current
 };
 
 std::vector<EventSpec> make_events(const Mission& m, const SegmentSetup& s, double cutoff_cell_V) {
@@ -95,6 +103,8 @@ std::vector<EventSpec> make_events(const Mission& m, const SegmentSetup& s, doub
       {"over_current", [=](const Sample& x) { return i_limit - x.term.current_A; }, false},
       // With a thermal model the cells warm; without one their temperature stays and never crosses.
       {"cell_hot", [](const Sample& x) { return battery::kCellHotC - x.x[battery::kTemp]; }, false},
+      // Back under the continuous limit: closes a spell above it (for the burst rule).
+      {"under_current", [=](const Sample& x) { return x.term.current_A - i_limit; }, false},
   };
 }
 
@@ -145,6 +155,7 @@ std::optional<SegmentSetup> setup_stretch(const Mission& m, const Phase& p, doub
   s.rho = air->density_kg_m3;
   s.shaft_W = mp.shaft_W;
   s.motor_in_W = mp.v_motor_V * mp.i_motor_A;
+  s.i_motor_A = mp.i_motor_A;
   return s;
 }
 
@@ -233,6 +244,30 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
   double shaft_J = 0.0, motor_in_J = 0.0, drive_J = 0.0;
   battery::Demand last_demand;  // for the trace's exact end point
   double last_vm = 0.0, last_h = 0.0;
+  // Limits in flight, each the worst value over the flight and where it was reached.
+  struct Peak {
+    double v = -kInf, t = 0.0;
+    int phase = -1;
+    void see(double x, double at, int ph) {
+      if (x > v) v = x, t = at, phase = ph;
+    }
+  };
+  Peak cell_i, motor_i, hover_duty, v_sag;  // v_sag: minus the loaded cell voltage
+  const bool multirotor = is_multirotor(m.airframe);
+  const double i_cont_pack = m.pack.cell.i_cont_max_A * m.pack.parallel;
+  // Spells above the continuous cell current, for the burst rule: the longest and where it began.
+  bool spell_open = false;
+  double spell_t0 = 0.0;
+  int spell_phase = -1;
+  Peak spell;
+  auto open_spell = [&](double at, int ph) {
+    if (!spell_open) spell_open = true, spell_t0 = at, spell_phase = ph;
+  };
+  auto close_spell = [&](double at) {
+    if (spell_open) spell.see(at - spell_t0, spell_t0, spell_phase);
+    spell_open = false;
+  };
+  std::optional<double> v_takeoff_V;  // loaded bus voltage at take-off
 
   for (std::size_t i = 0; i < m.phases.size() && !stopped; ++i) {
     const Phase& p = m.phases[i];
@@ -292,6 +327,12 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
         ps.shaft_W = setup->shaft_W;
       }
       const auto events = make_events(m, *setup, cutoff);
+      motor_i.see(setup->i_motor_A, t, static_cast<int>(i));
+      const battery::Terminal term0 = battery::Thevenin{pm, setup->demand}.terminal(x, t);
+      if (!v_takeoff_V) v_takeoff_V = term0.v_terminal_V;
+      // A phase boundary is a jump in current: it can open or close a spell.
+      if (term0.current_A > i_cont_pack) open_spell(t, static_cast<int>(i));
+      else close_spell(t);
       SegmentOptions so;
       so.t_end = t + st.duration_s;
       so.sample_s = opts.sample_s;
@@ -304,10 +345,14 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
       so.abs_tol = 1e-9;
       so.rel_tol = 1e-9;
       const double vm = setup->v_motor_V;
+      const bool hover = multirotor && p.kind == Phase::Kind::hover;
       auto track = [&](const Sample& s) {
         ps.v_min_cell_V = std::min(ps.v_min_cell_V, s.term.v_terminal_V / S);
         ps.i_max_A = std::max(ps.i_max_A, s.term.current_A);
         if (vm > 0) ps.duty_max = std::max(ps.duty_max, vm / s.term.v_terminal_V);
+        cell_i.see(s.term.current_A / m.pack.parallel, s.t, static_cast<int>(i));
+        v_sag.see(-s.term.v_terminal_V / S, s.t, static_cast<int>(i));
+        if (hover && vm > 0) hover_duty.see(vm / s.term.v_terminal_V, s.t, static_cast<int>(i));
       };
       const StepHook hook = [&](double ta, double tb, const std::function<Sample(double)>& at) {
         const Sample a = at(ta), mid = at(0.5 * (ta + tb)), b = at(tb);
@@ -335,6 +380,8 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
       }
       for (const auto& w : seg.warnings) {
         const int pi = static_cast<int>(i);
+        if (w.event == kOverCurrent) open_spell(w.at.t, pi);
+        if (w.event == kUnderCurrent) close_spell(w.at.t);
         if (w.event == kResVLoad && !reserve_v_seen) {
           reserve_v_seen = true;
           out.events.push_back({w.at.t, "reserve_v_load", pi,
@@ -363,6 +410,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
       last_h = st.duration_s > 0 ? st.h_start_m + (st.h_end_m - st.h_start_m) * dt / st.duration_s : st.h_end_m;
       t = seg.end.t;
       x = seg.end.x;
+      out.v_load_end_cell_V = seg.end.term.v_terminal_V / S;
       out.temperature_max_C = std::max(out.temperature_max_C, x[battery::kTemp]);
       for (const Sample& sm : seg.samples) out.temperature_max_C = std::max(out.temperature_max_C, sm.x[battery::kTemp]);
       if (seg.stopped) {
@@ -375,10 +423,14 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
         } else if (*seg.stopped == kSaturation) {
           const double avail = prop::thrust_available(m.drive, setup->axial_mps, setup->rho, v);
           const double need = setup->thrust_N;
-          out.end_detail = "the drive cannot give the thrust needed: at " + format_fixed(v, 2) + " V it gives " +
-                           format_fixed(avail, 2) + " N per rotor at full duty, the phase needs " + format_fixed(need, 2) +
-                           " N (short by " + format_fixed(need - avail, 2) + " N, " +
-                           format_fixed(100 * (need - avail) / need, 1) + " %)";
+          // The event sits where d_max·V_bus = V_m, so the shortfall there is tiny: show it with
+          // two significant digits, and say that it grows from here as the pack sags.
+          const double short_N = need - avail;
+          out.end_detail = "the drive reaches full duty at " + format_fixed(v, 2) + " V bus and cannot give the " +
+                           format_fixed(need, 2) + " N per rotor the phase needs below that voltage (at " +
+                           format_fixed(v, 2) + " V it gives " + format_significant(avail, 6) + " N, short by " +
+                           format_significant(short_N, 2) + " N, " + format_significant(100 * short_N / need, 2) +
+                           " %, growing as the pack sags)";
         } else if (*seg.stopped == kCollapse) {
           out.end_detail = "power collapse: the pack cannot deliver " + format_fixed(setup->demand.a + setup->demand.b * v, 0) + " W";
         } else {
@@ -431,6 +483,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
     last.height_m = last_h;
     out.trace.push_back(last);
   }
+  close_spell(t);
   std::stable_sort(out.events.begin(), out.events.end(),
                    [](const MissionEvent& a, const MissionEvent& b) { return a.t_s < b.t_s; });
 
@@ -450,7 +503,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
   out.landing.energy_Wh = stored_energy_Wh(m.pack, std::max(0.0, x[battery::kSoc]));
   out.landing.v_rest_cell_V = pm.ocv_cell_V(x[battery::kSoc]);
   out.landing.temperature_C = x[battery::kTemp];
-  out.landing.v_load_cell_V = out.trace.empty() ? out.v_min_cell_V : out.trace.back().s.term.v_terminal_V / S;
+  out.landing.v_load_cell_V = v_takeoff_V ? out.v_load_end_cell_V : pm.ocv_cell_V(x[battery::kSoc]);
   (void)rest;
 
   // Time on station left at landing: hover (multirotor) or loiter at the minimum-power speed
@@ -474,27 +527,111 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
       auto ev = make_events(m, *setup, floor_v);
       ev.resize(kEmpty + 1);  // terminal events only
       SegmentOptions so;
-      so.t_end = t + std::max(10.0 * *m.reserve.hover_s, 600.0);
+      // No end time: the hold runs until its loaded voltage floor, saturation, power collapse
+      // or an empty pack ends it (one of them always does: the charge only falls), within the
+      // phase step cap.
       so.abs_tol = 1e-9;
       so.rel_tol = 1e-9;
       so.max_steps = opts.max_steps_per_phase;
       so.context = "reserve time at landing";
       const auto seg = run_segment(pm, setup->demand, t, x, ev, so);
       out.reserve_time_s = seg.end.t - t;
+      out.reserve_time_end = seg.stopped ? ev[*seg.stopped].kind : "";
+    } else {
+      out.reserve_time_end = "refused: " + why;
     }
   }
 
-  // Rules at landing.
-  auto rule = [&](std::string name, std::string unit, double req, double act) {
-    out.rules.push_back({std::move(name), std::move(unit), req, act, act - req, act >= req});
+  // Rules at landing (reserves) and in flight (limits). A landing rule of a flight that ended
+  // early is not reached: it fails, and reports say so instead of showing a value.
+  auto rule = [&](std::string name, std::string unit, double req, double act) -> RuleCheck& {
+    RuleCheck r;
+    r.name = std::move(name);
+    r.unit = std::move(unit);
+    r.required = req;
+    r.actual = act;
+    r.margin = act - req;
+    r.pass = act >= req;
+    out.rules.push_back(std::move(r));
+    return out.rules.back();
+  };
+  auto limit = [&](std::string name, std::string unit, double lim, double act, double at, int ph) -> RuleCheck& {
+    RuleCheck& r = rule(std::move(name), std::move(unit), lim, act);
+    r.is_max = true;
+    r.margin = lim - act;
+    r.pass = act <= lim;
+    r.t_s = at;
+    r.phase = ph;
+    return r;
+  };
+  auto at_landing = [&](RuleCheck& r) {
+    r.t_s = t;
+    r.reached = out.completed;
+    if (!out.completed) r.pass = false;
   };
   rule("mission_flown", "s", planned_total, out.flight_time_s);
   out.rules.back().pass = out.completed;
-  if (m.reserve.soc_min) rule("soc_min", "", *m.reserve.soc_min, out.completed ? out.landing.soc : 0.0);
-  if (m.reserve.hover_s) rule("hover_s", "s", *m.reserve.hover_s, out.completed ? out.reserve_time_s : 0.0);
+  out.rules.back().t_s = t;
+  if (m.reserve.soc_min) at_landing(rule("soc_min", "", *m.reserve.soc_min, out.landing.soc));
+  if (m.reserve.hover_s) {
+    RuleCheck& r = rule("hover_s", "s", *m.reserve.hover_s, out.reserve_time_s);
+    at_landing(r);
+    if (out.reserve_time_end.rfind("refused: ", 0) == 0) {
+      r.pass = false;
+      r.note = "the hold at the field cannot be flown: " + out.reserve_time_end.substr(9);
+    }
+  }
   if (m.reserve.v_rest_cell_min_V)
-    rule("v_rest_cell_min_V", "V", *m.reserve.v_rest_cell_min_V, out.completed ? out.landing.v_rest_cell_V : 0.0);
-  if (m.reserve.v_load_cell_min_V) rule("v_load_cell_min_V", "V", *m.reserve.v_load_cell_min_V, out.v_min_cell_V);
+    at_landing(rule("v_rest_cell_min_V", "V", *m.reserve.v_rest_cell_min_V, out.landing.v_rest_cell_V));
+  if (m.reserve.v_load_cell_min_V) {
+    RuleCheck& r = rule("v_load_cell_min_V", "V", *m.reserve.v_load_cell_min_V, out.v_min_cell_V);
+    r.t_s = v_sag.t;
+    r.phase = v_sag.phase;
+  }
+  // Cell current: the continuous limit at every instant, or with a burst rating the burst
+  // current at every instant and spells above the continuous limit no longer than burst_s.
+  if (cell_i.phase >= 0) {
+    const auto& burst = m.pack.cell.burst;
+    if (!burst) {
+      limit("cell_current_cont_A", "A", m.pack.cell.i_cont_max_A, cell_i.v, cell_i.t, cell_i.phase).note =
+          "per cell, at every instant; burst rule not checked: the cell gives no i_burst_max_A and burst_s";
+    } else {
+      limit("cell_current_burst_A", "A", burst->i_max_A, cell_i.v, cell_i.t, cell_i.phase).note =
+          "per cell, at every instant";
+      const double held = spell.phase >= 0 ? spell.v : 0.0;
+      limit("cell_current_cont_s", "s", burst->duration_s, held, spell.phase >= 0 ? spell.t : 0.0, spell.phase).note =
+          "longest spell above the continuous " + format_fixed(m.pack.cell.i_cont_max_A, 1) + " A per cell";
+    }
+  }
+  if (motor_i.phase >= 0) {
+    limit("motor_current_A", "A", m.drive.motor.i_max_A, motor_i.v, motor_i.t, motor_i.phase).length_dependent = false;
+    limit("esc_current_A", "A", m.drive.esc.i_max_A, motor_i.v, motor_i.t, motor_i.phase).length_dependent = false;
+  }
+  if (const auto mtom = flight::mtom_kg(m.airframe)) {
+    RuleCheck& r = limit("mtom_kg", "kg", *mtom, out.all_up_mass_kg, 0.0, 0);
+    r.length_dependent = false;
+    r.note = "all-up mass at take-off against the airframe's mtom_kg";
+  }
+  if (multirotor && v_takeoff_V) {
+    // Thrust-to-weight: every rotor at full duty, static (no axial flow), in the air at the
+    // field, at the loaded bus voltage at take-off: T/W = N·T_max(V) / (m·g0).
+    const auto air = m.environment.atmosphere.at(0.0);
+    const double rho = air ? air->density_kg_m3 : 1.225;
+    const double tmax = m.drive.rotors * prop::thrust_available(m.drive, 0.0, rho, *v_takeoff_V);
+    const double tw = tmax / (out.all_up_mass_kg * flight::kStandardGravity);
+    RuleCheck& r = rule("thrust_to_weight", "", m.reserve.thrust_to_weight_min.value_or(flight::kDefaultThrustToWeightMin), tw);
+    r.t_s = 0.0;
+    r.phase = 0;
+    r.length_dependent = false;
+    r.note = std::string("full-duty static thrust at the loaded take-off voltage ") + format_fixed(*v_takeoff_V, 2) +
+             " V over the weight" + (m.reserve.thrust_to_weight_min ? "" : "; 2:1 minimum by default (common practice)");
+  }
+  if (hover_duty.phase >= 0) {
+    limit("hover_duty_max", "", m.reserve.hover_duty_max.value_or(flight::kDefaultHoverDutyMax), hover_duty.v,
+          hover_duty.t, hover_duty.phase)
+        .note = m.reserve.hover_duty_max ? "highest duty in a hover"
+                                         : "highest duty in a hover; 0.80 by default, a fifth left for control (common practice)";
+  }
   out.go = std::all_of(out.rules.begin(), out.rules.end(), [](const RuleCheck& r) { return r.pass; });
   return out;
 }
@@ -516,9 +653,6 @@ Mission lengthened(const Mission& m, std::size_t i, double delta_s) {
   return out;
 }
 
-namespace {
-
-/// The smallest relative margin over the rules and the completion of the flight, and its name.
 /// Continuous across the boundary where a flight stops completing: a completed flight's
 /// completion margin is its closeness to the cutoff and to full duty, an incomplete one's is
 /// minus the fraction not flown.
@@ -542,7 +676,7 @@ std::pair<double, std::string> smallest_margin(const Mission& m, const MissionRe
   for (const auto& p : r.phases) duty_max = std::max(duty_max, p.duty_max);
   consider((m.drive.esc.duty_max - duty_max) / m.drive.esc.duty_max, "saturation");
   for (const auto& rule : r.rules) {
-    if (rule.name == "mission_flown") continue;
+    if (rule.name == "mission_flown" || !rule.length_dependent) continue;
     const double scale = rule.name == "soc_min" ? 1.0 : rule.name == "hover_s" ? std::max(rule.required, 60.0)
                                                                                : rule.required;
     consider(rule.margin / scale, rule.name);
@@ -550,11 +684,59 @@ std::pair<double, std::string> smallest_margin(const Mission& m, const MissionRe
   return {best, name};
 }
 
+namespace {
+
+/// The longest cruise leg given by distance, if any.
+std::optional<std::size_t> longest_leg(const Mission& m) {
+  std::optional<std::size_t> best;
+  for (std::size_t k = 0; k < m.phases.size(); ++k) {
+    const Phase& p = m.phases[k];
+    if (p.kind != Phase::Kind::cruise || !p.distance_m) continue;
+    if (!best || *p.distance_m > *m.phases[*best].distance_m) best = k;
+  }
+  return best;
+}
+
+/// With the spare phase removed and the mission still failing: how many metres of the longest
+/// cruise leg must go as well (TOMS 748 to 0.5 m), or none when even 1 m of it is too much.
+template <class Run>
+void solve_leg_cut(const Mission& m, std::size_t spare, SpareResult& out, Run& run_mission) {
+  const auto leg = longest_leg(m);
+  if (!leg) {
+    out.note = "the mission fails even without phase " + std::to_string(spare + 1) + ", and it has no cruise leg to shorten";
+    return;
+  }
+  const Mission without = lengthened(m, spare, -planned_duration_s(m, spare).value_or(0.0));
+  const double dist = *m.phases[*leg].distance_m;
+  auto cut = [&](double c) {
+    Mission mm = without;
+    mm.phases[*leg].distance_m = std::max(dist - c, 1.0);
+    return smallest_margin(mm, run_mission(mm, "the cut of leg " + std::to_string(*leg + 1) + " (last tried " +
+                                                   format_number(c) + " m)"))
+        .first;
+  };
+  const double lo = 0.0, hi = dist - 1.0;
+  const double flo = smallest_margin(m, run_mission(without, "the mission without its spare phase")).first;
+  const double fhi = cut(hi);
+  out.cut_leg = leg;
+  if (fhi < 0.0) {
+    out.note = "the mission fails even without phase " + std::to_string(spare + 1) + " and with phase " +
+               std::to_string(*leg + 1) + " cut to 1 m";
+    return;
+  }
+  const double root = find_root(cut, lo, hi, flo, fhi, 0.5, 100).value_or(hi);
+  out.cut_leg_m = std::min(root + 0.5, hi);
+  out.note = "remove phase " + std::to_string(spare + 1) + " and shorten phase " + std::to_string(*leg + 1) + " by " +
+             format_fixed(*out.cut_leg_m, 0) + " m";
+}
+
 }  // namespace
 
 SpareResult solve_spare(const Mission& m, const MissionResult& base, const SpareOptions& opts) {
   SpareResult out;
   out.phase = spare_phase(m);
+  for (const auto& r : base.rules)
+    if (!r.pass && !r.length_dependent) out.fixed_failures.push_back(r.name);
   if (!out.phase) {
     out.note = "no hover, loiter or phase marked spare to lengthen";
     return out;
@@ -568,13 +750,16 @@ SpareResult solve_spare(const Mission& m, const MissionResult& base, const Spare
   const double base_len = planned_duration_s(m, i).value_or(0.0);
   SimOptions so = opts.sim;
   so.sample_s = 0.0;
-  auto run = [&](double delta) {
+  auto run_mission = [&](const Mission& mm, const std::string& what) {
     if (out.simulations >= opts.max_simulations)
       throw LimitError("spare-time solve stopped after " + std::to_string(opts.max_simulations) +
-                       " whole-mission simulations without locating the spare time of phase " +
-                       std::to_string(i + 1) + " (last tried " + format_number(delta) + " s)");
+                       " whole-mission simulations without locating " + what);
     ++out.simulations;
-    return simulate(lengthened(m, i, delta), so);
+    return simulate(mm, so);
+  };
+  auto run = [&](double delta) {
+    return run_mission(lengthened(m, i, delta), "the spare time of phase " + std::to_string(i + 1) + " (last tried " +
+                                                    format_number(delta) + " s)");
   };
   auto f = [&](double delta) { return smallest_margin(m, run(delta)).first; };
   const double f0 = smallest_margin(m, base).first;
@@ -582,29 +767,33 @@ SpareResult solve_spare(const Mission& m, const MissionResult& base, const Spare
   if (f0 >= 0.0) {
     lo = 0.0;
     flo = f0;
-    hi = std::max(60.0, 0.25 * base_len);
+    hi = std::min(std::max(60.0, 0.25 * base_len), opts.max_spare_s);
     fhi = f(hi);
     while (fhi >= 0.0) {
-      if (hi > 1e6) {
+      if (hi >= opts.max_spare_s) {
+        // Stated as a bound: every rule still holds with this much added, and the search stops.
         out.spare_s = hi;
-        out.note = "more than " + format_fixed(hi / 3600, 0) + " h";
+        out.capped = true;
+        out.note = "every rule still holds with " + format_fixed(hi, 0) + " s added; the search stops there";
         return out;
       }
       lo = hi;
       flo = fhi;
-      hi *= 2.0;
+      hi = std::min(2.0 * hi, opts.max_spare_s);
       fhi = f(hi);
     }
   } else {
     hi = 0.0;
     fhi = f0;
     lo = -base_len;
-    flo = f(lo);
+    const MissionResult without = run(lo);
+    const auto [m_without, rule_without] = smallest_margin(m, without);
+    flo = m_without;
     if (flo < 0.0) {
       out.spare_s = -base_len;
       out.bounded = false;
-      out.binding_rule = smallest_margin(m, run(lo)).second;
-      out.note = "the mission fails even without this phase";
+      out.binding_rule = rule_without;
+      solve_leg_cut(m, i, out, run_mission);
       return out;
     }
   }
