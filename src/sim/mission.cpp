@@ -4,6 +4,8 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
+#include <tuple>
+#include <cstdio>
 
 #include "core/error.hpp"
 #include "core/roots.hpp"
@@ -659,16 +661,18 @@ Mission lengthened(const Mission& m, std::size_t i, double delta_s) {
 std::pair<double, std::string> smallest_margin(const Mission& m, const MissionResult& r) {
   double best = kInf;
   std::string name;
-  auto consider = [&](double v, const std::string& n) {
-    if (v < best) {
-      best = v;
-      name = n;
-    }
-  };
+  for (const auto& [v, n] : rule_margins(m, r))
+    if (v < best) best = v, name = n;
+  return {best, name};
+}
+
+std::vector<std::pair<double, std::string>> rule_margins(const Mission& m, const MissionResult& r) {
+  std::vector<std::pair<double, std::string>> out;
+  auto consider = [&](double v, const std::string& n) { out.emplace_back(v, n); };
   const double planned = r.rules.front().required;
   if (!r.completed) {
     consider(-(planned - r.flight_time_s) / std::max(planned, 1.0), r.end_kind);
-    return {best, name};
+    return out;
   }
   const double cutoff = m.pack.cell.v_cutoff_V;
   consider((r.v_min_cell_V - cutoff) / cutoff, "cutoff_voltage");
@@ -681,7 +685,32 @@ std::pair<double, std::string> smallest_margin(const Mission& m, const MissionRe
                                                                                : rule.required;
     consider(rule.margin / scale, rule.name);
   }
-  return {best, name};
+  return out;
+}
+
+double predicted_root(const std::vector<std::pair<double, std::string>>& a,
+                      const std::vector<std::pair<double, std::string>>& b, double xa, double xb) {
+  // Each margin nearly linear in x: its zero at xa + v_a·(xb − xa)/(v_a − v_b); the first to
+  // reach zero binds.
+  double r = kInf;
+  for (const auto& [va, na] : a)
+    for (const auto& [vb, nb] : b)
+      if (na == nb && va >= 0.0 && vb < va) r = std::min(r, xa + va * (xb - xa) / (va - vb));
+  return std::isfinite(r) ? r : std::numeric_limits<double>::quiet_NaN();
+}
+
+void narrow_bracket(const std::function<double(double)>& f, double& lo, double& hi, double& flo, double& fhi,
+                    double guess) {
+  if (!(hi > lo) || flo == fhi) return;
+  // Linear interpolation of the ends: r = lo + f(lo)·(hi − lo)/(f(lo) − f(hi)).
+  const double r = std::isfinite(guess) ? guess : lo + flo * (hi - lo) / (flo - fhi);
+  const double d = std::max(0.5, 0.002 * (hi - lo));
+  for (double x : {r + d, r - d}) {
+    if (!(x > lo && x < hi)) continue;
+    const double fx = f(x);
+    if ((fx >= 0.0) == (flo >= 0.0)) lo = x, flo = fx;
+    else hi = x, fhi = fx;
+  }
 }
 
 namespace {
@@ -715,7 +744,7 @@ void solve_leg_cut(const Mission& m, std::size_t spare, SpareResult& out, Run& r
                                                    format_number(c) + " m)"))
         .first;
   };
-  const double lo = 0.0, hi = dist - 1.0;
+  const double lo = 0.0, hi = dist - 1.0;  // metres cut
   const double flo = smallest_margin(m, run_mission(without, "the mission without its spare phase")).first;
   const double fhi = cut(hi);
   out.cut_leg = leg;
@@ -724,7 +753,9 @@ void solve_leg_cut(const Mission& m, std::size_t spare, SpareResult& out, Run& r
                std::to_string(*leg + 1) + " cut to 1 m";
     return;
   }
-  const double root = find_root(cut, lo, hi, flo, fhi, 0.5, 100).value_or(hi);
+  double a = lo, b = hi, fa = flo, fb = fhi;
+  narrow_bracket(cut, a, b, fa, fb);
+  const double root = find_root(cut, a, b, fa, fb, 0.5, 100).value_or(b);
   out.cut_leg_m = std::min(root + 0.5, hi);
   out.note = "remove phase " + std::to_string(spare + 1) + " and shorten phase " + std::to_string(*leg + 1) + " by " +
              format_fixed(*out.cut_leg_m, 0) + " m";
@@ -761,7 +792,22 @@ SpareResult solve_spare(const Mission& m, const MissionResult& base, const Spare
     return run_mission(lengthened(m, i, delta), "the spare time of phase " + std::to_string(i + 1) + " (last tried " +
                                                     format_number(delta) + " s)");
   };
-  auto f = [&](double delta) { return smallest_margin(m, run(delta)).first; };
+  // Each evaluation is kept: the binding rule is read from the nearest failing one.
+  std::vector<std::tuple<double, double, std::string>> seen;
+  std::vector<std::pair<double, std::vector<std::pair<double, std::string>>>> all;  // every rule's margin
+  auto f = [&](double delta) {
+    const MissionResult r = run(delta);
+    auto [v, name] = smallest_margin(m, r);
+    seen.emplace_back(delta, v, name);
+    all.emplace_back(delta, rule_margins(m, r));
+    return v;
+  };
+  all.emplace_back(0.0, rule_margins(m, base));
+  auto margins_at = [&](double x) {
+    for (const auto& [d, v] : all)
+      if (d == x) return v;
+    return std::vector<std::pair<double, std::string>>{};
+  };
   const double f0 = smallest_margin(m, base).first;
   double lo, hi, flo, fhi;
   if (f0 >= 0.0) {
@@ -777,9 +823,16 @@ SpareResult solve_spare(const Mission& m, const MissionResult& base, const Spare
         out.note = "every rule still holds with " + format_fixed(hi, 0) + " s added; the search stops there";
         return out;
       }
+      // Next try: past the root the last two points predict (margins fall nearly linearly with
+      // the added time), at least 1 s further and at most eight times as far.
+      const double slope = (fhi - flo) / (hi - lo);
+      double next = 2.0 * hi;
+      if (slope < 0.0) next = std::clamp(hi - fhi / slope + 0.02 * (hi - lo) + 1.0, hi + 1.0, 8.0 * hi);
+      const double pr = predicted_root(margins_at(lo), margins_at(hi), lo, hi);
+      if (std::isfinite(pr) && pr > hi) next = std::clamp(pr + 0.02 * (hi - lo) + 1.0, hi + 1.0, 8.0 * hi);
       lo = hi;
       flo = fhi;
-      hi = std::min(2.0 * hi, opts.max_spare_s);
+      hi = std::min(next, opts.max_spare_s);
       fhi = f(hi);
     }
   } else {
@@ -788,6 +841,7 @@ SpareResult solve_spare(const Mission& m, const MissionResult& base, const Spare
     lo = -base_len;
     const MissionResult without = run(lo);
     const auto [m_without, rule_without] = smallest_margin(m, without);
+    all.emplace_back(lo, rule_margins(m, without));
     flo = m_without;
     if (flo < 0.0) {
       out.spare_s = -base_len;
@@ -797,10 +851,14 @@ SpareResult solve_spare(const Mission& m, const MissionResult& base, const Spare
       return out;
     }
   }
+  narrow_bracket(f, lo, hi, flo, fhi, predicted_root(margins_at(lo), margins_at(hi), lo, hi));
   const double root = find_root(f, lo, hi, flo, fhi, 0.05, 100).value_or(lo);
   // Report the side of the bracket where every rule still holds.
   out.spare_s = root;
-  out.binding_rule = smallest_margin(m, run(root + 0.05)).second;
+  // The rule failing just past the root: from an evaluation within 1 s past it, else one more.
+  for (const auto& [d, v, name] : seen)
+    if (v < 0.0 && d > root && d - root <= 1.0 && out.binding_rule.empty()) out.binding_rule = name;
+  if (out.binding_rule.empty()) out.binding_rule = smallest_margin(m, run(root + 0.05)).second;
   return out;
 }
 

@@ -3,6 +3,8 @@
 /// drive's operating point for it, and the pack's Thevenin ODE under the bus power that point
 /// draws, P(V) = a + b·V (the ESC's switching loss grows with bus voltage). Events and reserve
 /// crossings are located on the dense output; the rules are checked at landing.
+#include <functional>
+#include <limits>
 #include <optional>
 #include <string>
 #include <vector>
@@ -191,6 +193,22 @@ SpareResult solve_spare(const Mission& m, const MissionResult& base, const Spare
 /// flight, and the rule it belongs to (negative: a rule fails). Continuous across the point
 /// where a flight stops completing.
 std::pair<double, std::string> smallest_margin(const Mission& m, const MissionResult& r);
+
+/// Narrow a sign-changing bracket [lo, hi] of f by two evaluations either side of the linear
+/// interpolation of its ends (max(0.5, 0.002·(hi − lo)) away): a rule margin is nearly linear in
+/// the added time, so the root usually lands inside, and TOMS 748 then starts on a bracket of a
+/// second. Both ends stay a valid bracket whatever f does.
+/// `guess`: a better prediction of the root than the interpolation (NaN: none).
+void narrow_bracket(const std::function<double(double)>& f, double& lo, double& hi, double& flo, double& fhi,
+                    double guess = std::numeric_limits<double>::quiet_NaN());
+
+/// Every length-dependent margin smallest_margin takes the least of, with its rule's name.
+std::vector<std::pair<double, std::string>> rule_margins(const Mission& m, const MissionResult& r);
+
+/// Where the first of the margins reaches zero if each is linear between xa and xb (NaN: none
+/// falls).
+double predicted_root(const std::vector<std::pair<double, std::string>>& a,
+                      const std::vector<std::pair<double, std::string>>& b, double xa, double xb);
 
 /// The mission with phase `i` lengthened (or shortened) by `delta_s` seconds of flight.
 Mission lengthened(const Mission& m, std::size_t i, double delta_s);

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <functional>
 #include <numbers>
 
 #include "core/error.hpp"
@@ -147,16 +148,23 @@ TurnHome solve_turn_home(const Mission& m, const TurnHomeOptions& opts) {
             tp.capped = true;
             break;
           }
+          // Past the root the last two points predict (at least 1 s on, at most eight times as far).
+          const double extra = hi - *planned;
+          const double slope = (fhi.first - flo) / (hi - lo);
+          double next = 2.0 * extra;
+          if (slope < 0.0) next = std::clamp(extra - fhi.first / slope + 0.02 * (hi - lo) + 1.0, extra + 1.0, 8.0 * extra);
           lo = hi;
           flo = fhi.first;
-          hi = *planned + std::min(2.0 * (hi - *planned), opts.max_extra_s);
+          hi = *planned + std::min(next, opts.max_extra_s);
           fhi = margin(i, hi);
         }
         if (tp.capped) {
           latest = hi;
         } else {
-          const auto f = [&](double tau) { return margin(i, tau).first; };
-          latest = find_root(f, lo, hi, flo, fhi.first, tol, 100).value_or(lo);
+          const std::function<double(double)> f = [&](double tau) { return margin(i, tau).first; };
+          double fh = fhi.first;
+          narrow_bracket(f, lo, hi, flo, fh);
+          latest = find_root(f, lo, hi, flo, fh, tol, 100).value_or(lo);
           tp.binding_rule = margin(i, *latest + tol).second;
         }
         tp.beyond_plan = *latest > *planned;
@@ -166,8 +174,10 @@ TurnHome solve_turn_home(const Mission& m, const TurnHomeOptions& opts) {
       if (start.first < 0.0) {
         tp.binding_rule = start.second;
       } else {
-        const auto f = [&](double tau) { return margin(i, tau).first; };
-        latest = find_root(f, 0.0, *planned, start.first, end.first, tol, 100).value_or(0.0);
+        const std::function<double(double)> f = [&](double tau) { return margin(i, tau).first; };
+        double lo = 0.0, hi = *planned, flo = start.first, fhi = end.first;
+        narrow_bracket(f, lo, hi, flo, fhi);
+        latest = find_root(f, lo, hi, flo, fhi, tol, 100).value_or(lo);
         tp.binding_rule = margin(i, std::min(*latest + tol, *planned)).second;
       }
     }
