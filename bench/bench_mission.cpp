@@ -5,6 +5,7 @@
 #include "bench.hpp"
 #include "io/profile_json.hpp"
 #include "sim/mission.hpp"
+#include "sim/turn_home.hpp"
 
 namespace {
 
@@ -34,6 +35,7 @@ const bool reg = [] {
       const auto& m = demo(file);
       bench::keep(sim::solve_spare(m, sim::simulate(m)).spare_s);
     }, 20);
+    bench::add_case(std::string("turn_home_") + d.tag, [file] { bench::keep(sim::solve_turn_home(demo(file)).simulations); }, 5);
   }
   return true;
 }();

@@ -48,6 +48,13 @@ struct CellCoverage {
   std::string source;                       ///< where the ranges come from, free text
 };
 
+/// A burst rating: the cell may carry up to `i_max_A` for at most `duration_s` at a time above its
+/// continuous limit (the maker's pulse rating, e.g. "20C for 10 s").
+struct Burst {
+  double i_max_A = 0.0;     ///< A
+  double duration_s = 0.0;  ///< s
+};
+
 struct Cell {
   std::string name;
   std::string chemistry;
@@ -56,6 +63,7 @@ struct Cell {
   double v_max_V = 4.2;        ///< full-charge voltage, V
   double v_cutoff_V = 3.3;     ///< default end-of-discharge loaded voltage, V
   double i_cont_max_A = 10.0;  ///< continuous current limit, A
+  std::optional<Burst> burst;  ///< none: only the continuous limit is checked
   Table ocv_V{3.7};            ///< open-circuit voltage over SoC, V
   Table r0_ohm{0.01};          ///< series resistance over SoC, Ω
   std::vector<RcPair> rc;      ///< zero, one or two RC pairs

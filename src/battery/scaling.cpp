@@ -12,6 +12,7 @@ Cell scale_cell(const Cell& c, double capacity_Ah) {
   out.capacity_Ah = capacity_Ah;
   out.mass_kg = c.mass_kg * k;
   out.i_cont_max_A = c.i_cont_max_A * k;
+  if (out.burst) out.burst->i_max_A = c.burst->i_max_A * k;
   out.r0_ohm = c.r0_ohm.scaled(1.0 / k);
   for (auto& rc : out.rc) rc.r_ohm = rc.r_ohm.scaled(1.0 / k);
   // The covered currents are those of the same C-rates in the bigger cell; SoC and temperature

@@ -15,6 +15,7 @@
 #include "report/result_csv.hpp"
 #include "sim/best_speeds.hpp"
 #include "sim/mission.hpp"
+#include "sim/turn_home.hpp"
 
 namespace sortie::cli {
 
@@ -43,15 +44,16 @@ int run_fly(const FlyOptions& o) {
   sim::SpareOptions spare_opts;
   spare_opts.sim = so;
   const sim::SpareResult spare = sim::solve_spare(lp.mission, r, spare_opts);
+  const sim::TurnHome home = sim::solve_turn_home(lp.mission);
   // Every output is made before the first is written.
-  const std::string html = o.report.html_file.empty() ? "" : report::fly_html(lp.mission, r, spare);
+  const std::string html = o.report.html_file.empty() ? "" : report::fly_html(lp.mission, r, spare, &home);
   if (!o.json_file.empty())
-    io::write_output(o.json_file, report::fly_json(lp.mission, r, spare).dump(2) + "\n");
-  if (!o.trace_file.empty()) io::write_output(o.trace_file, report::fly_trace_csv(r));
+    io::write_output(o.json_file, report::fly_json(lp.mission, r, spare, &home).dump(2) + "\n");
+  if (!o.trace_file.empty()) io::write_output(o.trace_file, report::fly_trace_csv(r, &home));
   if (!o.report.html_file.empty()) io::write_output(o.report.html_file, html);
-  if (print && o.report.format == "json") io::write_output("-", report::fly_json(lp.mission, r, spare).dump(2) + "\n");
+  if (print && o.report.format == "json") io::write_output("-", report::fly_json(lp.mission, r, spare, &home).dump(2) + "\n");
   if (print && o.report.format == "csv") io::write_output("-", report::fly_phases_csv(lp.mission, r));
-  if (print && o.report.format == "text") io::write_output("-", printable(report::fly_text(lp.mission, r, spare), true));
+  if (print && o.report.format == "text") io::write_output("-", printable(report::fly_text(lp.mission, r, spare, &home), true));
   return r.go ? kExitOk : kExitNoGo;
 }
 

@@ -1,6 +1,7 @@
 #pragma once
 /// Airframes as plain data (SI): what the aircraft weighs and how it makes drag and lift.
 /// The rotor count and disk area come from the drive, not from here.
+#include <optional>
 #include <string>
 #include <variant>
 
@@ -28,6 +29,7 @@ struct Multirotor {
   /// K in the profile power's growth with advance ratio, P0(μ) = P0·(1 + K·μ²); 4.65
   /// (Leishman 2006, ch. 5, forward-flight power; from memory). Some texts use 4.7 or 3.
   double profile_power_k = 4.65;
+  std::optional<double> mtom_kg;  ///< maximum take-off mass, kg (none: not checked)
 };
 
 /// A fixed-wing aircraft with a parabolic drag polar CD = CD0 + CL²/(π·e·AR).
@@ -40,12 +42,15 @@ struct FixedWing {
   double aspect_ratio = 8.0;    ///< AR = b²/S
   double oswald_e = 0.8;        ///< span efficiency, 0 < e ≤ 1
   double cl_max = 1.2;          ///< maximum lift coefficient (clean, at stall)
+  std::optional<double> mtom_kg;  ///< maximum take-off mass, kg (none: not checked)
 };
 
 using Airframe = std::variant<Multirotor, FixedWing>;
 
 /// All-up mass = mass_empty_kg + payload_kg + pack mass (DESIGN.md "mass"), kg.
 double all_up_mass_kg(const Airframe& a, double pack_mass_kg);
+/// The maximum take-off mass the airframe states, kg (none: not given).
+std::optional<double> mtom_kg(const Airframe& a);
 /// "multirotor" or "fixed_wing" (the file's "kind").
 const char* kind_name(const Airframe& a);
 /// The airframe's name, possibly empty.

@@ -44,12 +44,25 @@ double turn_load_factor(const Phase& p, double airspeed_mps);
 
 const char* to_string(Phase::Kind k);
 
-/// Reserve rules; an absent rule is not checked.
+/// Thrust-to-weight a multirotor needs at least: 2:1 is common practice for a frame that must
+/// hold position in gusts and climb away (aerobatic frames use far more).
+inline constexpr double kDefaultThrustToWeightMin = 2.0;
+/// Highest hover duty: 0.80 leaves a fifth of the duty range for control and gusts (common
+/// practice; a hover near mid-throttle is the usual design aim).
+inline constexpr double kDefaultHoverDutyMax = 0.80;
+
+/// Reserve rules; an absent rule is not checked (the two multirotor limits below take their
+/// defaults instead).
 struct Reserve {
   std::optional<double> soc_min;             ///< state of charge at landing, 0..1
   std::optional<double> hover_s;             ///< time on station still available at landing, s
   std::optional<double> v_rest_cell_min_V;   ///< resting cell voltage at landing, V
   std::optional<double> v_load_cell_min_V;   ///< loaded cell voltage never crossed in flight, V
+  /// Multirotor: the drive's full-duty static thrust at the loaded take-off voltage over the
+  /// weight (none: kDefaultThrustToWeightMin).
+  std::optional<double> thrust_to_weight_min;
+  /// Multirotor: highest duty in a hover, 0..1 (none: kDefaultHoverDutyMax).
+  std::optional<double> hover_duty_max;
 };
 
 }  // namespace sortie::flight

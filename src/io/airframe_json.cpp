@@ -12,9 +12,10 @@ namespace {
 
 const std::vector<std::string> kMultirotorKeys = {"mass_empty_kg", "payload_kg", "cda_m2",
                                                   "cda_vertical_m2", "download_fraction",
-                                                  "induced_power_factor", "profile_power_k"};
+                                                  "induced_power_factor", "profile_power_k", "mtom_kg"};
 const std::vector<std::string> kFixedWingKeys = {"mass_empty_kg", "payload_kg", "wing_area_m2",
-                                                 "cd0", "aspect_ratio", "oswald_e", "cl_max"};
+                                                 "cd0", "aspect_ratio", "oswald_e", "cl_max",
+                                                 "mtom_kg"};
 
 bool contains(const std::vector<std::string>& v, const std::string& s) {
   return std::find(v.begin(), v.end(), s) != v.end();
@@ -47,6 +48,7 @@ flight::Multirotor read_multirotor(ObjectReader& r, std::string name) {
   m.name = std::move(name);
   m.mass_empty_kg = r.number("mass_empty_kg", kMass);
   m.payload_kg = r.number_or("payload_kg", 0.0, kPayload);
+  m.mtom_kg = r.optional_number("mtom_kg", kMass);
   m.cda_m2 = r.number("cda_m2", kDragArea);
   m.cda_vertical_m2 = r.number_or("cda_vertical_m2", m.cda_m2, kDragArea);
   m.download_fraction = r.number_or("download_fraction", m.download_fraction, between(0.0, 0.5, ""));
@@ -61,6 +63,7 @@ flight::FixedWing read_fixed_wing(ObjectReader& r, std::string name) {
   w.name = std::move(name);
   w.mass_empty_kg = r.number("mass_empty_kg", kMass);
   w.payload_kg = r.number_or("payload_kg", 0.0, kPayload);
+  w.mtom_kg = r.optional_number("mtom_kg", kMass);
   w.wing_area_m2 = r.number("wing_area_m2", above_to(0.0, 50.0, "m2"));
   w.cd0 = r.number("cd0", above_to(0.0, 0.5, ""));
   w.aspect_ratio = r.number("aspect_ratio", between(1.0, 50.0, ""));

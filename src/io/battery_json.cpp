@@ -44,6 +44,16 @@ battery::Cell read_cell(ObjectReader& r) {
     r.fail("v_cutoff_V", "cutoff voltage at or above the maximum voltage",
            format_number(c.v_cutoff_V) + " V", "below v_max_V = " + format_number(c.v_max_V) + " V");
   c.i_cont_max_A = r.number("i_cont_max_A", positive("A"));
+  // A burst rating comes as a pair: the current and how long it may be held.
+  if (r.has("i_burst_max_A") || r.has("burst_s")) {
+    battery::Burst b;
+    b.i_max_A = r.number("i_burst_max_A", positive("A"));
+    b.duration_s = r.number("burst_s", above_to(0.0, 3600.0, "s"));
+    if (b.i_max_A < c.i_cont_max_A)
+      r.fail("i_burst_max_A", "burst current below the continuous limit", format_number(b.i_max_A) + " A",
+             "at least i_cont_max_A = " + format_number(c.i_cont_max_A) + " A");
+    c.burst = b;
+  }
   c.ocv_V = r.table("ocv", "soc", "V", between(0.0, 1.0, ""), above_to(0.0, 10.0, "V"), 11);
   r.object("ocv").require_increasing("V", c.ocv_V.y(), "OCV not increasing with SoC");
   c.r0_ohm = r.number_or_table("r0_ohm", "soc", "ohm", between(0.0, 1.0, ""), positive("ohm"));

@@ -70,6 +70,8 @@ flight::Reserve read_reserve(ObjectReader& r) {
   res.hover_s = r.optional_number("hover_s", between(0.0, 1e5, "s"));
   res.v_rest_cell_min_V = r.optional_number("v_rest_cell_min_V", above_to(0.0, 10.0, "V"));
   res.v_load_cell_min_V = r.optional_number("v_load_cell_min_V", above_to(0.0, 10.0, "V"));
+  res.thrust_to_weight_min = r.optional_number("thrust_to_weight_min", between(1.0, 20.0, ""));
+  res.hover_duty_max = r.optional_number("hover_duty_max", above_to(0.0, 1.0, ""));
   r.finish();
   return res;
 }

@@ -11,35 +11,23 @@ namespace sortie::report {
 namespace {
 
 /// What limits or sinks a row, in a few words.
-std::string limit_words(const sim::CompareRow& row) {
+std::string limit_words(const sim::Mission& base, const sim::CompareRow& row) {
   const auto& r = row.result;
   if (r.refused) return "cannot fly: " + r.end_detail;
-  if (!r.completed) {
-    if (r.end_kind == "cutoff_voltage") return "ends early at the cell cutoff";
-    if (r.end_kind == "saturation") return "ends early: the drive saturates";
-    if (r.end_kind == "power_collapse") return "ends early: power collapse";
-    if (r.end_kind == "soc_floor") return "ends early: pack empty";
-    return "ends early: " + r.end_kind;
-  }
-  if (!r.go) {
-    std::string s = "fails";
-    const char* sep = ": ";
-    for (const auto& rule : r.rules)
-      if (!rule.pass) s += sep + rule_words(rule.name), sep = ", ";
-    return s;
-  }
+  if (!r.go) return "fails: " + failure_reasons(base, r);
   return row.spare.binding_rule.empty() ? "" : "then " + rule_words(row.spare.binding_rule) + " binds";
 }
 
 /// limit_words, and the excursions beyond the model's range when there are any.
-std::string limit_cell(const sim::CompareRow& row) {
-  std::string s = limit_words(row);
+std::string limit_cell(const sim::Mission& base, const sim::CompareRow& row) {
+  std::string s = limit_words(base, row);
   for (const auto& e : row.result.excursions) s += (s.empty() ? "" : "; ") + std::string("outside data: ") + sim::brief(e);
   return s;
 }
 
 std::string spare_cell(const sim::CompareRow& row) {
-  if (row.result.refused || !row.spare.phase) return "-";
+  if (row.result.refused || !row.spare.phase || !row.spare.bounded) return "-";
+  if (row.spare.capped) return "> " + fixed(row.spare.spare_s, 0);
   std::string s = fixed(row.spare.spare_s, 0);
   if (row.spare.spare_s > 0) s = "+" + s;
   return s;
@@ -54,13 +42,15 @@ std::string compare_text(const sim::Mission& base, const std::vector<sim::Compar
   out += "\n";
   TextTable t({"rank", "pack", "verdict", "spare s", "flight s", "landing SoC %", "pack kg", "all-up kg", "max C",
                "duty mean %", "ESC η mean %", "limit"});
+  t.wrap_last(60);
   int rank = 0;
   for (const auto& row : rows) {
     const auto& r = row.result;
-    t.add_row({std::to_string(++rank), row.candidate.label, r.go ? "go" : "NO-GO", spare_cell(row),
+    // Only packs that pass every rule are ranked; the others say why they fail.
+    t.add_row({r.go ? std::to_string(++rank) : "-", row.candidate.label, r.go ? "go" : "NO-GO", spare_cell(row),
                fixed(r.flight_time_s, 0), r.refused ? "-" : fixed(r.landing.soc * 100, 1), fixed(r.pack_mass_kg, 3),
                fixed(r.all_up_mass_kg, 3), r.refused ? "-" : fixed(r.c_rate_max, 2), r.refused ? "-" : fixed(r.duty_mean * 100, 1),
-               r.refused ? "-" : fixed(r.eta_esc_mean * 100, 1), limit_cell(row)});
+               r.refused ? "-" : fixed(r.eta_esc_mean * 100, 1), limit_cell(base, row)});
   }
   out += t.render();
   out += "\nAn estimate from models, not a clearance to fly: follow local aviation rules and the\n"
@@ -77,7 +67,7 @@ nlohmann::json compare_json(const sim::Mission& base, const std::vector<sim::Com
   int rank = 0;
   for (const auto& row : rows) {
     const auto& r = row.result;
-    arr.push_back({{"rank", ++rank},
+    arr.push_back({{"rank", r.go ? json(++rank) : json()},
                    {"pack", row.candidate.label},
                    {"layout", row.candidate.pack.layout()},
                    {"series", row.candidate.pack.series},
@@ -85,7 +75,9 @@ nlohmann::json compare_json(const sim::Mission& base, const std::vector<sim::Com
                    {"capacity_Ah", row.candidate.pack.capacity_Ah()},
                    {"verdict", r.go ? "go" : "no-go"},
                    {"refused", r.refused},
-                   {"spare_s", row.spare.phase && !r.refused ? json(row.spare.spare_s) : json()},
+                   {"spare_s", row.spare.phase && !r.refused && row.spare.bounded && !row.spare.capped
+                                   ? json(row.spare.spare_s) : json()},
+                   {"spare_capped", row.spare.capped},
                    {"binding_rule", row.spare.binding_rule},
                    {"flight_time_s", r.flight_time_s},
                    {"landing_soc", r.landing.soc},
@@ -94,7 +86,7 @@ nlohmann::json compare_json(const sim::Mission& base, const std::vector<sim::Com
                    {"c_rate_max", r.c_rate_max},
                    {"duty_mean", r.duty_mean},
                    {"eta_esc_mean", r.eta_esc_mean},
-                   {"limit", limit_words(row)},
+                   {"limit", limit_words(base, row)},
                    {"model_range", {{"soc_floor_covered", r.soc_floor_covered},
                                     {"excursions", excursions_json(r.excursions, true)}}}});
   }

@@ -22,7 +22,10 @@ std::string signed_fixed(double v, int digits) {
   return s;
 }
 
-bool has_spare(const sim::CompareRow& row) { return row.spare.phase && !row.result.refused; }
+/// A solved spare figure (not a capped bound, not a mission that no length mends).
+bool has_spare(const sim::CompareRow& row) {
+  return row.spare.phase && !row.result.refused && row.spare.bounded && !row.spare.capped;
+}
 
 /// How a flight ended early, in words.
 std::string end_words(const std::string& kind) {
@@ -87,20 +90,22 @@ std::string compare_html(const sim::Mission& base, const std::vector<sim::Compar
     const auto& row = rows[i];
     const auto& r = row.result;
     const std::string label = std::to_string(i + 1) + ". " + row.candidate.label;
-    svg::Bar b{label, {}, "", !r.go, no_go_words(row)};
+    // The bar carries a short flag; the ranking table below gives every reason in full.
+    svg::Bar b{label, {}, "", !r.go, r.go ? "" : "NO-GO"};
     if (has_spare(row)) {
       b.value = row.spare.spare_s;
       b.value_text = signed_fixed(row.spare.spare_s, 0) + " s";
     }
     spare.bars.push_back(b);
-    svg::Bar c{label, {}, "", !r.go, no_go_words(row)};
+    svg::Bar c{label, {}, "", !r.go, r.go ? "" : "NO-GO"};
     if (!r.refused) {
       c.value = r.landing.soc * 100;
       c.value_text = fixed(r.landing.soc * 100, 1) + " %";
     }
     soc.bars.push_back(c);
   }
-  std::string plots = html::figure("Spare time", svg::render(spare), where + "Hatched bars are no-go packs.");
+  std::string plots = html::figure("Spare time", svg::render(spare),
+                                   where + "Hatched bars are no-go packs; the ranking below says why each fails.");
   plots += html::figure("State of charge at landing", svg::render(soc),
                         "A pack whose flight ends early shows the charge where it ended.");
   page.section("Packs side by side", plots);
@@ -115,8 +120,9 @@ std::string compare_html(const sim::Mission& base, const std::vector<sim::Compar
       return ok ? number_cell(text, k + key) : number_cell("-");
     };
     std::string limit = no_go_words(row);
+    if (!r.go && !r.refused) limit = "NO-GO: " + failure_reasons(base, r);
     if (limit.empty() && !row.spare.binding_rule.empty()) limit = "then " + rule_words(row.spare.binding_rule) + " binds";
-    t.add_row({number_cell(std::to_string(i + 1), k + "rank"), text_cell(row.candidate.label),
+    t.add_row({r.go ? number_cell(std::to_string(i + 1), k + "rank") : number_cell("-"), text_cell(row.candidate.label),
                html::html_cell(r.go ? "go" : "NO-GO", false, r.go ? "pass" : "fail"),
                or_dash(has_spare(row), signed_fixed(row.spare.spare_s, 0) + " s", "spare_s"),
                number_cell(fixed(r.flight_time_s, 0) + " s", k + "flight_time_s"),

@@ -34,6 +34,8 @@ const char* kCurrent = "#7a3d8c";
 const char* kDuty = "#0b6e8a";
 const char* kEtaDrive = "#8a6d00";
 const char* kEtaEsc = "#7a3d8c";
+const char* kHeight = "#2f6b3a";
+const char* kTurnHome = "#111111";
 
 /// Time axis in minutes for anything longer than a few minutes, else seconds.
 struct TimeAxis {
@@ -65,6 +67,37 @@ std::vector<svg::Band> phase_bands(const sim::MissionResult& r, const TimeAxis& 
   return bands;
 }
 
+/// The turn-home point as a single marked point at (t, y), when there is one.
+void mark_turn_home(svg::LinePlot& p, const sim::TurnHome* home, const TimeAxis& ta, double y) {
+  if (!home || !home->point) return;
+  svg::Line pt{"turn home by " + fixed(home->point->t_s, 0) + " s", {home->point->t_s * ta.per_s}, {y}, kTurnHome};
+  pt.markers = true;
+  p.lines.push_back(pt);
+}
+
+std::string height_plot(const sim::MissionResult& r, const sim::TurnHome* home, const TimeAxis& ta) {
+  svg::LinePlot p;
+  p.id = "fly-height";
+  p.title = "Height above the field and the phases over the flight";
+  p.x = time_x(r, ta);
+  p.y = {"height above the field", "m", 0.0, {}};
+  p.right_margin = true;
+  svg::Line h{"height", {}, {}, kHeight};
+  for (const auto& tp : r.trace) {
+    h.x.push_back(tp.s.t * ta.per_s);
+    h.y.push_back(tp.height_m);
+  }
+  p.lines = {h};
+  if (home && home->point) {
+    double y = 0.0;
+    for (const auto& tp : r.trace)
+      if (tp.s.t <= home->point->t_s) y = tp.height_m;
+    mark_turn_home(p, home, ta, y);
+  }
+  p.bands = phase_bands(r, ta);
+  return svg::render(p);
+}
+
 std::string setup_text(const sim::Mission& m, const sim::MissionResult& r, const std::string& what) {
   if (what == "aircraft") {
     const std::string af_name = flight::name(m.airframe);
@@ -89,7 +122,7 @@ std::string no_trace_note(const sim::MissionResult& r) {
   return r.trace.empty() ? "No trace was recorded for this run, so only the phases are drawn." : "";
 }
 
-std::string voltage_plot(const sim::Mission& m, const sim::MissionResult& r, const TimeAxis& ta) {
+std::string voltage_plot(const sim::Mission& m, const sim::MissionResult& r, const sim::TurnHome* home, const TimeAxis& ta) {
   const double S = m.pack.series;
   svg::LinePlot p;
   p.id = "fly-voltage-soc";
@@ -110,6 +143,7 @@ std::string voltage_plot(const sim::Mission& m, const sim::MissionResult& r, con
     soc.y.push_back(tp.s.x[battery::kSoc] * 100.0);
   }
   p.lines = {loaded, ocv, soc};
+  if (home && home->point) mark_turn_home(p, home, ta, home->point->v_load_cell_V * S);
   if (m.reserve.v_load_cell_min_V)
     p.levels.push_back({*m.reserve.v_load_cell_min_V * S,
                         "loaded reserve " + fixed(*m.reserve.v_load_cell_min_V, 2) + " V × " +
@@ -147,8 +181,14 @@ std::string current_plot(const sim::Mission& m, const sim::MissionResult& r, con
     i.y.push_back(tp.s.term.current_A);
   }
   p.lines = {i};
+  // The cell limits for the pack, drawn when the flight comes near them (otherwise they squeeze
+  // the curve; the rules table gives them).
   const double limit = m.pack.cell.i_cont_max_A * m.pack.parallel;
   if (r.i_max_A > 0.7 * limit) p.levels.push_back({limit, "continuous limit " + fixed(limit, 0) + " A", kReserve});
+  if (const auto& b = m.pack.cell.burst; b && r.i_max_A > 0.7 * b->i_max_A * m.pack.parallel)
+    p.levels.push_back({b->i_max_A * m.pack.parallel,
+                        "burst limit " + fixed(b->i_max_A * m.pack.parallel, 0) + " A for " + fixed(b->duration_s, 0) + " s",
+                        kCutoff});
   p.bands = phase_bands(r, ta);
   return svg::render(p);
 }
@@ -166,6 +206,9 @@ std::string temperature_plot(const sim::MissionResult& r, const TimeAxis& ta) {
 }
 
 std::string duty_plot(const sim::MissionResult& r, const TimeAxis& ta) {
+  const sim::RuleCheck* hover_rule = nullptr;
+  for (const auto& rule : r.rules)
+    if (rule.name == "hover_duty_max") hover_rule = &rule;
   svg::LinePlot p;
   p.id = "fly-duty-efficiency";
   p.title = "ESC duty over the flight and drive efficiencies by phase";
@@ -193,6 +236,9 @@ std::string duty_plot(const sim::MissionResult& r, const TimeAxis& ta) {
     p.levels.push_back({r.eta_esc_mean * 100.0, "ESC efficiency, mean over the flight " + fixed(r.eta_esc_mean * 100.0, 1) + " %",
                         kEtaEsc});
   p.lines = {duty, eta};
+  if (hover_rule)
+    p.levels.push_back({hover_rule->required * 100.0, "hover duty limit " + fixed(hover_rule->required * 100.0, 0) + " %",
+                        kReserve});
   p.bands = phase_bands(r, ta);
   return svg::render(p);
 }
@@ -217,18 +263,69 @@ std::string energy_plot(const sim::Mission& m, const sim::MissionResult& r) {
   return svg::render(p);
 }
 
-std::string rules_table(const sim::MissionResult& r) {
-  html::Table t({"rule", "required", "actual", "margin", "result"});
+std::string rules_table(const sim::Mission& m, const sim::MissionResult& r) {
+  html::Table t({"rule", "limit", "reached", "margin", "where", "result"});
+  std::string notes;
   for (const auto& rule : r.rules) {
     const std::string k = "rules." + rule.name + ".";
-    std::string margin = rule.name == "soc_min" || rule.name == "soc_covered" ? fixed(rule.margin * 100, 1) + " %" : rule_value(rule, rule.margin);
+    const bool pct = rule.name == "soc_min" || rule.name == "soc_covered" || rule.name == "hover_duty_max";
+    std::string margin = pct ? fixed(rule.margin * 100, 1) + " %" : rule_value(rule, rule.margin);
     if (rule.margin > 0 && margin[0] != '-' && margin.find_first_not_of("0. %sV") != std::string::npos) margin = "+" + margin;
-    t.add_row({text_cell(rule_words(rule.name)), number_cell(rule_value(rule, rule.required), k + "required"),
-               number_cell(rule_value(rule, rule.actual), k + "actual"), number_cell(margin, k + "margin"),
+    const std::string where = rule.name == "mission_flown" ? "-"
+                              : rule.phase < 0            ? "landing"
+                                                          : phase_name(m, rule.phase) + ", " + fixed(rule.t_s, 0) + " s";
+    const std::string unit = pct ? "%" : "";
+    t.add_row({text_cell(rule_words(rule.name)),
+               html::html_cell(esc(rule.is_max ? "max " : "min ") + keyed(k + "required", rule_value(rule, rule.required)), true),
+               rule.reached ? number_cell(rule_value(rule, rule.actual), k + "actual", unit) : text_cell("not reached"),
+               rule.reached ? number_cell(margin, k + "margin", unit) : number_cell("-"),
+               text_cell(rule.reached ? where : "-"),
                html::html_cell(rule.pass ? "pass" : "FAIL", false, rule.pass ? "pass" : "fail")},
               rule.pass ? "" : "fail");
+    if (!rule.note.empty()) notes += "<li>" + esc(rule_words(rule.name) + ": " + rule.note) + "</li>\n";
   }
-  return t.render();
+  std::string out = t.render();
+  if (!r.completed)
+    out += "<p class=\"note\">Not reached: the flight ended before landing; the verdict says why.</p>\n";
+  if (!notes.empty()) out += "<ul class=\"note\">\n" + notes + "</ul>\n";
+  return out;
+}
+
+std::string turn_home_html(const sim::Mission& m, const sim::TurnHome& home) {
+  std::string out = "<p>Home is a straight cruise back to the start point at " + esc(fixed(home.home_airspeed_mps, 1)) +
+                    " m/s airspeed (the last cruise leg's), in the wind, then the descent at " +
+                    esc(fixed(home.home_descent_mps, 1)) + " m/s. ";
+  if (home.point)
+    out += "<strong>Turn home by " + keyed("turn_home.point.t_s", fixed(home.point->t_s, 0) + " s") +
+           "</strong> from take-off (phase " + esc(phase_name(m, static_cast<int>(*home.point_phase))) + "): charge " +
+           keyed("turn_home.point.soc", fixed(home.point->soc * 100, 1) + " %", "%") + ", loaded cell " +
+           keyed("turn_home.point.v_load_cell_V", fixed(home.point->v_load_cell_V, 3) + " V") + ", resting cell " +
+           keyed("turn_home.point.v_rest_cell_V", fixed(home.point->v_rest_cell_V, 3) + " V") +
+           (home.binding_rule.empty() ? "" : esc("; later, " + rule_words(home.binding_rule) + " fails")) +
+           ". The point is marked on the height and voltage plots.</p>\n";
+  else
+    out += "Turning home holds at every moment of the plan.</p>\n";
+  html::Table t({"phase", "latest turn s", "into phase s", "charge %", "loaded cell V", "resting cell V", "then fails"});
+  for (std::size_t i = 0; i < home.phases.size(); ++i) {
+    const auto& tp = home.phases[i];
+    const std::string k = "turn_home.phases." + std::to_string(i) + ".";
+    const std::string name = phase_name(m, static_cast<int>(tp.phase));
+    if (!tp.latest_in_phase_s || !tp.at) {
+      t.add_row({text_cell(name), text_cell("none"), number_cell("-"), number_cell("-"), number_cell("-"),
+                 number_cell("-"), text_cell(rule_words(tp.binding_rule))});
+      continue;
+    }
+    std::string into = keyed(k + "latest_in_phase_s", fixed(*tp.latest_in_phase_s, 0));
+    if (tp.capped) into = "more than " + into;
+    else if (tp.beyond_plan) into += " (past the plan)";
+    else if (tp.whole_phase) into += " (all)";
+    t.add_row({text_cell(name), number_cell(fixed(tp.at->t_s, 0), k + "at.t_s"), html::html_cell(into, true),
+               number_cell(fixed(tp.at->soc * 100, 1), k + "at.soc", "%"),
+               number_cell(fixed(tp.at->v_load_cell_V, 3), k + "at.v_load_cell_V"),
+               number_cell(fixed(tp.at->v_rest_cell_V, 3), k + "at.v_rest_cell_V"),
+               text_cell(tp.binding_rule.empty() ? "-" : rule_words(tp.binding_rule))});
+  }
+  return out + t.render();
 }
 
 std::string phases_table(const sim::Mission& m, const sim::MissionResult& r) {
@@ -259,7 +356,8 @@ std::string phases_table(const sim::Mission& m, const sim::MissionResult& r) {
 
 }  // namespace
 
-std::string fly_html(const sim::Mission& m, const sim::MissionResult& r, const sim::SpareResult& s) {
+std::string fly_html(const sim::Mission& m, const sim::MissionResult& r, const sim::SpareResult& s,
+                     const sim::TurnHome* home) {
   html::Page page("Mission: " + m.name, "sortie fly · " + m.pack.layout() + " pack · " +
                                             std::to_string(r.phases.size()) + " phases");
   page.add(html::verdict_banner(r.go, verdict_line(m, r, s), "verdict_text"));
@@ -275,11 +373,18 @@ std::string fly_html(const sim::Mission& m, const sim::MissionResult& r, const s
   cards.push_back({"charge at landing", keyed("landing.soc", fixed(r.landing.soc * 100, 1) + " %"),
                    soc_rule ? "reserve " + fixed(soc_rule->required * 100, 0) + " %" : "no reserve rule on charge",
                    soc_rule && !soc_rule->pass});
-  if (s.phase) {
+  if (s.phase && s.bounded && !s.capped) {
     cards.push_back({"spare time", keyed("spare_s", signed_fixed(s.spare_s, 0) + " s"),
                      "on phase " + phase_name(m, static_cast<int>(*s.phase)),
                      s.spare_s < 0});
+  } else if (s.phase) {
+    cards.push_back({"spare time", esc(s.capped ? "more than " + fixed(s.spare_s, 0) + " s" : "none"), s.note, !s.capped});
   }
+  if (home && home->point)
+    cards.push_back({"turn home by", keyed("turn_home.point.t_s", fixed(home->point->t_s, 0) + " s"),
+                     "charge " + fixed(home->point->soc * 100, 1) + " %, loaded cell " +
+                         fixed(home->point->v_load_cell_V, 3) + " V",
+                     false});
   cards.push_back({"energy used", keyed("energy_Wh", fixed(r.energy_Wh, 2) + " Wh"), fixed(r.charge_Ah, 3) + " Ah"});
   cards.push_back({"lowest cell voltage", keyed("v_min_cell_V", fixed(r.v_min_cell_V, 3) + " V"),
                    "under load; " + fixed(r.landing.v_rest_cell_V, 3) + " V resting at landing"});
@@ -290,13 +395,18 @@ std::string fly_html(const sim::Mission& m, const sim::MissionResult& r, const s
                      r.temperature_max_C > battery::kCellHotC});
   page.add(html::cards(cards));
 
-  page.section("Reserve rules at landing", rules_table(r));
+  page.section("Reserve rules and limits", rules_table(m, r));
+  if (home) page.section("Turn home", turn_home_html(m, *home));
 
   const TimeAxis ta = time_axis(r.flight_time_s);
   const std::string trace_note = no_trace_note(r);
   std::string band_note = "Shaded bands are the phases, numbered as in the phase table.";
   std::string plots;
-  plots += html::figure("Pack voltage and state of charge", voltage_plot(m, r, ta),
+  const std::string mark_note =
+      home && home->point ? " The black dot is the turn-home point." : "";
+  plots += html::figure("Height and phases", height_plot(r, home, ta),
+                        band_note + mark_note + " " + trace_note);
+  plots += html::figure("Pack voltage and state of charge", voltage_plot(m, r, home, ta),
                         band_note + " Dash-dot lines are the reserves: the charge reserve on the right-hand scale, the "
                                     "loaded-voltage reserve (and the cell cutoff, when the flight comes near it) on the "
                                     "left. " + trace_note);

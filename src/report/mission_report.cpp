@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
 
 #include "core/text.hpp"
 
@@ -30,13 +31,29 @@ std::string rule_words(const std::string& name) {
   if (name == "hover_s") return "time on station left at landing";
   if (name == "v_rest_cell_min_V") return "resting cell voltage at landing";
   if (name == "v_load_cell_min_V") return "loaded cell voltage in flight";
+  if (name == "cell_current_cont_A") return "cell current (continuous limit)";
+  if (name == "cell_current_burst_A") return "cell current (burst limit)";
+  if (name == "cell_current_cont_s") return "time above the continuous cell current";
+  if (name == "motor_current_A") return "motor current";
+  if (name == "esc_current_A") return "ESC current";
+  if (name == "mtom_kg") return "take-off mass";
+  if (name == "thrust_to_weight") return "thrust-to-weight at take-off";
+  if (name == "hover_duty_max") return "hover duty";
+  if (name == "cutoff_voltage") return "cell cutoff voltage";
+  if (name == "saturation") return "full duty (saturation)";
+  if (name == "power_collapse") return "power collapse";
+  if (name == "soc_floor") return "empty pack";
   return name;
 }
 
 std::string rule_value(const sim::RuleCheck& r, double v) {
   if (r.name == "soc_min" || r.name == "soc_covered") return fixed(v * 100.0, 1) + " %";
+  if (r.name == "hover_duty_max") return fixed(v * 100.0, 1) + " %";
+  if (r.name == "thrust_to_weight") return fixed(v, 2) + ":1";
   if (r.unit == "V") return fixed(v, 3) + " V";
-  if (r.unit == "s") return fixed(v, 0) + " s";
+  if (r.unit == "s") return r.name == "cell_current_cont_s" ? fixed(v, 1) + " s" : fixed(v, 0) + " s";
+  if (r.unit == "A") return fixed(v, 2) + " A";
+  if (r.unit == "kg") return fixed(v, 3) + " kg";
   return fixed(v, 3);
 }
 
@@ -49,37 +66,64 @@ std::string model_range_note(const MissionResult& r) {
   for (std::size_t k = 0; k < r.excursions.size(); ++k) s += (k ? "; " : "") + sim::brief(r.excursions[k]);
   return s + "]";
 }
+
+std::string where_words(const sim::Mission& m, const sim::RuleCheck& r) {
+  if (r.phase < 0) return "at landing";
+  return "in phase " + phase_name(m, r.phase) + " at " + fixed(r.t_s, 0) + " s";
+}
+
 }  // namespace
+
+std::string failure_reasons(const sim::Mission& m, const sim::MissionResult& r) {
+  std::string why;
+  if (!r.completed)
+    why = "the flight ends early in phase " + phase_name(m, r.end_phase) + " at " + fixed(r.flight_time_s, 0) +
+          " s: " + r.end_detail;
+  for (const auto& rule : r.rules) {
+    if (rule.pass || !rule.reached || rule.name == "mission_flown") continue;
+    if (!why.empty()) why += "; ";
+    why += rule_words(rule.name) + " " + rule_value(rule, rule.actual) + (rule.is_max ? ", limit " : ", needs ") +
+           rule_value(rule, rule.required);
+    if (rule.is_max || rule.name == "thrust_to_weight") why += " " + where_words(m, rule);
+    if (!rule.note.empty() && rule.name == "hover_s") why += " (" + rule.note + ")";
+  }
+  return why;
+}
+
+std::string spare_words(const sim::Mission& m, const sim::SpareResult& s) {
+  if (!s.phase) return s.note;
+  const std::string ph = "phase " + phase_name(m, static_cast<int>(*s.phase));
+  if (s.capped) return "more than " + fixed(s.spare_s, 0) + " s on " + ph + " (" + s.note + ")";
+  if (!s.bounded) return s.note.empty() ? "no length of " + ph + " meets the rules" : s.note;
+  return (s.spare_s >= 0 ? "+" : "") + fixed(s.spare_s, 0) + " s on " + ph +
+         (s.binding_rule.empty() ? "" : ", limited by " + rule_words(s.binding_rule));
+}
 
 std::string verdict_line(const sim::Mission& m, const MissionResult& r, const sim::SpareResult& s) {
   if (r.go) {
-    std::string line = "GO: the whole mission is flown and every reserve rule holds";
-    if (s.phase) {
+    std::string line = "GO: the whole mission is flown and every reserve rule and limit holds";
+    if (s.phase && s.capped) {
+      line += "; " + spare_words(m, s);
+    } else if (s.phase) {
       line += "; " + duration_hms(s.spare_s) + " to spare on phase " + phase_name(m, static_cast<int>(*s.phase));
       if (!s.binding_rule.empty()) line += " (then " + rule_words(s.binding_rule) + " binds)";
     }
     return line + model_range_note(r);
   }
-  std::string why;
-  if (!r.completed) {
-    why = "the flight ends early in phase " + phase_name(m, r.end_phase) + " at " + fixed(r.flight_time_s, 0) +
-          " s: " + r.end_detail;
-  } else {
-    for (const auto& rule : r.rules) {
-      if (rule.pass) continue;
-      if (!why.empty()) why += "; ";
-      why += rule_words(rule.name) + " " + rule_value(rule, rule.actual) + ", needs " + rule_value(rule, rule.required);
-    }
-  }
-  std::string line = "NO-GO: " + why;
-  if (s.phase && s.spare_s < 0) {
-    line += s.bounded ? "; shorten phase " + phase_name(m, static_cast<int>(*s.phase)) + " by " + duration_hms(-s.spare_s)
-                      : "; " + s.note;
+  std::string line = "NO-GO: " + failure_reasons(m, r);
+  if (!s.fixed_failures.empty()) {
+    line += "; no change of the mission's length mends ";
+    for (std::size_t k = 0; k < s.fixed_failures.size(); ++k)
+      line += (k ? ", " : "") + rule_words(s.fixed_failures[k]);
+  } else if (s.phase && !s.bounded) {
+    line += "; " + s.note;
+  } else if (s.phase && s.spare_s < 0) {
+    line += "; shorten phase " + phase_name(m, static_cast<int>(*s.phase)) + " by " + duration_hms(-s.spare_s);
   }
   return line + model_range_note(r);
 }
 
-std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::SpareResult& s) {
+std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::SpareResult& s, const sim::TurnHome* home) {
   std::string out = "sortie fly: " + printable(m.name) + "\n\n";
   KeyValues head;
   const std::string af_name = flight::name(m.airframe);
@@ -136,29 +180,65 @@ std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::S
                                      " °C at landing, highest " + fixed(r.temperature_max_C, 1) + " °C (air " +
                                      fixed(r.air_C, 1) + " °C)");
   land.add("mean duty, mean ESC efficiency", fixed(r.duty_mean * 100, 1) + " %, " + fixed(r.eta_esc_mean * 100, 1) + " %");
-  if (m.reserve.hover_s) {
+  if (m.reserve.hover_s && r.completed) {
     // Counted down to the covered SoC floor while the rule soc_covered holds the verdict to it.
     const bool to_floor = std::any_of(r.rules.begin(), r.rules.end(), [](const sim::RuleCheck& c) { return c.name == "soc_covered"; });
     land.add("time on station left at landing",
              fixed(r.reserve_time_s, 0) + " s" +
+                 (r.reserve_time_end.empty() ? "" : ", until " + (r.reserve_time_end.rfind("refused: ", 0) == 0
+                                                                      ? r.reserve_time_end
+                                                                      : rule_words(r.reserve_time_end))) +
                  (to_floor ? " (down to " + fixed(r.soc_floor_covered * 100, 1) + " % charge, the lowest the cell model has data for)" : ""));
   }
-  if (s.phase)
-    land.add("spare time", (s.spare_s >= 0 ? "+" : "") + fixed(s.spare_s, 0) + " s on phase " +
-                               phase_name(m, static_cast<int>(*s.phase)) +
-                               (s.binding_rule.empty() ? "" : ", limited by " + rule_words(s.binding_rule)) +
-                               (s.note.empty() ? "" : " (" + s.note + ")"));
+  if (s.phase) land.add("spare time", spare_words(m, s));
   out += "landing\n" + land.render() + "\n";
 
-  out += "reserve rules\n";
-  TextTable rt({"rule", "required", "actual", "margin", "result"});
+  out += "reserve rules and limits (reserves at landing, limits in flight)\n";
+  TextTable rt({"rule", "limit", "reached", "margin", "where", "result"});
+  std::string notes;
   for (const auto& rule : r.rules) {
-    std::string margin = rule.name == "soc_min" || rule.name == "soc_covered" ? fixed(rule.margin * 100, 1) + " %" : rule_value(rule, rule.margin);
+    std::string margin = rule.name == "soc_min" || rule.name == "soc_covered" || rule.name == "hover_duty_max"
+                             ? fixed(rule.margin * 100, 1) + " %"
+                             : rule_value(rule, rule.margin);
     if (rule.margin > 0 && margin[0] != '-') margin = "+" + margin;
-    rt.add_row({rule_words(rule.name), rule_value(rule, rule.required), rule_value(rule, rule.actual), margin,
-                rule.pass ? "pass" : "FAIL"});
+    const std::string limit = (rule.is_max ? "max " : "min ") + rule_value(rule, rule.required);
+    const std::string where = rule.name == "mission_flown" ? "-" : rule.phase < 0 ? "landing" : phase_name(m, rule.phase) + ", " + fixed(rule.t_s, 0) + " s";
+    rt.add_row({rule_words(rule.name), limit, rule.reached ? rule_value(rule, rule.actual) : "not reached",
+                rule.reached ? margin : "-", rule.reached ? where : "-", rule.pass ? "pass" : "FAIL"});
+    if (!rule.note.empty()) notes += "  " + rule_words(rule.name) + ": " + rule.note + "\n";
   }
-  out += rt.render() + "\n";
+  out += rt.render();
+  if (!r.completed) out += "  (not reached: the flight ended before landing; the verdict says why)\n";
+  out += notes + "\n";
+
+  if (home) {
+    out += "turn home (straight back to the start at " + fixed(home->home_airspeed_mps, 1) +
+           " m/s airspeed, then down at " + fixed(home->home_descent_mps, 1) + " m/s)\n";
+    if (home->point)
+      out += "  turn home by " + fixed(home->point->t_s, 0) + " s from take-off (" + duration_hms(home->point->t_s) +
+             ", phase " + phase_name(m, static_cast<int>(*home->point_phase)) + "): charge " +
+             fixed(home->point->soc * 100, 1) + " %, loaded cell " + fixed(home->point->v_load_cell_V, 3) +
+             " V, resting cell " + fixed(home->point->v_rest_cell_V, 3) + " V" +
+             (home->binding_rule.empty() ? "" : "; then " + rule_words(home->binding_rule) + " fails") + "\n";
+    else
+      out += "  turning home holds at every moment of the plan\n";
+    TextTable ht({"phase", "latest turn s", "into phase s", "charge %", "loaded cell V", "resting cell V", "then fails"});
+    for (const auto& tp : home->phases) {
+      const int pi = static_cast<int>(tp.phase);
+      if (!tp.latest_in_phase_s) {
+        ht.add_row({phase_name(m, pi), "none", "-", "-", "-", "-", rule_words(tp.binding_rule)});
+        continue;
+      }
+      std::string into = fixed(*tp.latest_in_phase_s, 0);
+      if (tp.capped) into = "more than " + into;
+      else if (tp.beyond_plan) into += " (past the plan)";
+      else if (tp.whole_phase) into += " (all)";
+      ht.add_row({phase_name(m, pi), fixed(tp.at->t_s, 0), into, fixed(tp.at->soc * 100, 1),
+                  fixed(tp.at->v_load_cell_V, 3), fixed(tp.at->v_rest_cell_V, 3),
+                  tp.binding_rule.empty() ? "-" : rule_words(tp.binding_rule)});
+    }
+    out += ht.render() + "\n";
+  }
 
   if (!r.excursions.empty()) out += excursions_text(r.excursions) + "\n";
   if (!r.events.empty()) {
@@ -173,7 +253,7 @@ std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::S
   return out;
 }
 
-nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim::SpareResult& s) {
+nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim::SpareResult& s, const sim::TurnHome* home) {
   using nlohmann::json;
   json j;
   j["schema"] = kFlySchema;
@@ -183,9 +263,14 @@ nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim
   j["completed"] = r.completed;
   if (!r.completed) j["end"] = {{"kind", r.end_kind}, {"phase", r.end_phase}, {"detail", r.end_detail}};
   j["flight_time_s"] = r.flight_time_s;
-  j["spare_s"] = s.phase ? json(s.spare_s) : json();
+  // spare_s only when it is a solved figure: null when nothing is lengthened, when the search
+  // stopped at its cap (spare.at_least_s) or when no length of the phase meets the rules.
+  j["spare_s"] = s.phase && s.bounded && !s.capped ? json(s.spare_s) : json();
   j["spare"] = {{"phase", s.phase ? json(*s.phase) : json()}, {"binding_rule", s.binding_rule},
-                {"bounded", s.bounded}, {"note", s.note}, {"simulations", s.simulations}};
+                {"bounded", s.bounded}, {"capped", s.capped}, {"at_least_s", s.capped ? json(s.spare_s) : json()},
+                {"cut_phase_s", s.phase && !s.bounded ? json(-s.spare_s) : json()},
+                {"cut_leg", s.cut_leg ? json(*s.cut_leg) : json()}, {"cut_leg_m", s.cut_leg_m ? json(*s.cut_leg_m) : json()},
+                {"fixed_failures", s.fixed_failures}, {"note", s.note}, {"simulations", s.simulations}};
   j["mass"] = {{"all_up_kg", r.all_up_mass_kg}, {"pack_kg", r.pack_mass_kg}};
   if (const auto& w = r.wing_speeds)
     j["wing_speeds"] = {{"stall_mps", w->stall_mps}, {"min_power_mps", w->min_power_mps},
@@ -205,7 +290,8 @@ nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim
   j["eta_esc_mean"] = r.eta_esc_mean;
   j["eta_mean"] = r.eta_mean;
   j["landing"] = {{"soc", r.landing.soc}, {"energy_Wh", r.landing.energy_Wh},
-                  {"v_rest_cell_V", r.landing.v_rest_cell_V}, {"reserve_time_s", r.reserve_time_s}};
+                  {"v_rest_cell_V", r.landing.v_rest_cell_V}, {"v_load_cell_V", r.landing.v_load_cell_V},
+                  {"reserve_time_s", r.reserve_time_s}, {"reserve_time_end", r.reserve_time_end}};
   if (r.thermal)
     j["cell_temperature_C"] = {{"start", r.temperature_start_C}, {"landing", r.landing.temperature_C},
                                {"max", r.temperature_max_C}, {"air", r.air_C}};
@@ -228,19 +314,37 @@ nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim
   j["events"] = ev;
   json rules = json::array();
   for (const auto& rule : r.rules)
-    rules.push_back({{"name", rule.name}, {"unit", rule.unit}, {"required", rule.required},
-                     {"actual", rule.actual}, {"margin", rule.margin}, {"pass", rule.pass}});
+    rules.push_back({{"name", rule.name}, {"unit", rule.unit}, {"limit", rule.is_max ? "max" : "min"},
+                     {"required", rule.required}, {"actual", rule.reached ? json(rule.actual) : json()},
+                     {"margin", rule.reached ? json(rule.margin) : json()}, {"pass", rule.pass},
+                     {"reached", rule.reached}, {"t_s", rule.t_s}, {"phase", rule.phase >= 0 ? json(rule.phase) : json()},
+                     {"length_dependent", rule.length_dependent}, {"note", rule.note}});
   j["rules"] = rules;
   j["model_range"] = {{"coverage", coverage_json(m.pack.cell)},
                       {"soc_floor_covered", r.soc_floor_covered},
                       {"accept_extrapolation", r.accept_extrapolation},
                       {"excursions", excursions_json(r.excursions, true)}};
+  if (home) {
+    auto state = [](const sim::FlightState& st) {
+      return json{{"t_s", st.t_s}, {"soc", st.soc}, {"v_load_cell_V", st.v_load_cell_V}, {"v_rest_cell_V", st.v_rest_cell_V}};
+    };
+    json ph = json::array();
+    for (const auto& tp : home->phases)
+      ph.push_back({{"phase", tp.phase}, {"latest_in_phase_s", tp.latest_in_phase_s ? json(*tp.latest_in_phase_s) : json()},
+                    {"at", tp.at ? state(*tp.at) : json()}, {"whole_phase", tp.whole_phase},
+                    {"beyond_plan", tp.beyond_plan}, {"capped", tp.capped}, {"binding_rule", tp.binding_rule}});
+    j["turn_home"] = {{"point", home->point ? state(*home->point) : json()},
+                      {"phase", home->point_phase ? json(*home->point_phase) : json()},
+                      {"binding_rule", home->binding_rule}, {"home_airspeed_mps", home->home_airspeed_mps},
+                      {"home_descent_mps", home->home_descent_mps}, {"phases", ph}, {"simulations", home->simulations}};
+  }
   return j;
 }
 
-std::string fly_trace_csv(const MissionResult& r) {
+std::string fly_trace_csv(const MissionResult& r, const sim::TurnHome* home) {
   std::string out = std::string("time_s,current_A,v_terminal_V,v_ocv_V,soc,power_W,phase,duty,thrust_N") +
-                    (r.thermal ? ",cell_temperature_C" : "") + "\n";
+                    (r.thermal ? ",cell_temperature_C" : "") + ",height_m,past_turn_home\n";
+  const double turn_t = home && home->point ? home->point->t_s : std::numeric_limits<double>::infinity();
   char buf[320];
   for (const auto& tp : r.trace) {
     const auto& s = tp.s;
@@ -252,6 +356,8 @@ std::string fly_trace_csv(const MissionResult& r) {
       std::snprintf(buf, sizeof buf, ",%.3f", s.x[battery::kTemp]);
       out += buf;
     }
+    std::snprintf(buf, sizeof buf, ",%.3f,%d", tp.height_m, s.t > turn_t ? 1 : 0);
+    out += buf;
     out += "\n";
   }
   return out;

@@ -4,6 +4,8 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
+#include <tuple>
+#include <cstdio>
 
 #include "core/error.hpp"
 #include "core/roots.hpp"
@@ -25,6 +27,13 @@ namespace {
 
 constexpr double kInf = std::numeric_limits<double>::infinity();
 
+
+/// `v` with `sig` significant digits in fixed notation ("0" for zero).
+std::string format_significant(double v, int sig) {
+  if (v == 0.0 || !std::isfinite(v)) return format_fixed(v, 0);
+  const int mag = static_cast<int>(std::floor(std::log10(std::fabs(v))));
+  return format_fixed(v, std::clamp(sig - 1 - mag, 0, 12));
+}
 
 bool is_multirotor(const flight::Airframe& a) { return std::holds_alternative<flight::Multirotor>(a); }
 
@@ -68,7 +77,7 @@ double reserve_loiter_speed(const flight::FixedWing& w, double mass, double rho)
 }
 
 /// Event indices of one segment's event list.
-enum : std::size_t { kCutoff, kSaturation, kCollapse, kEmpty, kResVLoad, kResSoc, kOverCurrent, kCellHot, kCoverage };
+enum : std::size_t { kCutoff, kSaturation, kCollapse, kEmpty, kResVLoad, kResSoc, kOverCurrent, kCellHot, kCoverage, kUnderCurrent };
 
 struct SegmentSetup {
   battery::Demand demand;
@@ -79,6 +88,7 @@ struct SegmentSetup {
   double rho = 1.225;
   double shaft_W = 0.0;       ///< per rotor
   double motor_in_W = 0.0;    ///< per rotor, V_m·I_m
+  double i_motor_A = 0.0;     ///< per rotor: the motor's and the ESC's output current
 };
 
 /// `coverage_floor` < 0: no stop at the covered SoC floor.
@@ -102,6 +112,8 @@ std::vector<EventSpec> make_events(const Mission& m, const SegmentSetup& s, doub
       // With a thermal model the cells warm; without one their temperature stays and never crosses.
       {"cell_hot", [](const Sample& x) { return battery::kCellHotC - x.x[battery::kTemp]; }, false},
       {"coverage_floor", [=](const Sample& x) { return coverage_floor < 0 ? 1.0 : x.x[battery::kSoc] - coverage_floor; }, true},
+      // Back under the continuous limit: closes a spell above it (for the burst rule).
+      {"under_current", [=](const Sample& x) { return x.term.current_A - i_limit; }, false},
   };
 }
 
@@ -153,6 +165,7 @@ std::optional<SegmentSetup> setup_stretch(const Mission& m, const Phase& p, doub
   s.rho = air->density_kg_m3;
   s.shaft_W = mp.shaft_W;
   s.motor_in_W = mp.v_motor_V * mp.i_motor_A;
+  s.i_motor_A = mp.i_motor_A;
   return s;
 }
 
@@ -247,6 +260,30 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
   double shaft_J = 0.0, motor_in_J = 0.0, drive_J = 0.0;
   battery::Demand last_demand;  // for the trace's exact end point
   double last_vm = 0.0, last_h = 0.0;
+  // Limits in flight, each the worst value over the flight and where it was reached.
+  struct Peak {
+    double v = -kInf, t = 0.0;
+    int phase = -1;
+    void see(double x, double at, int ph) {
+      if (x > v) v = x, t = at, phase = ph;
+    }
+  };
+  Peak cell_i, motor_i, hover_duty, v_sag;  // v_sag: minus the loaded cell voltage
+  const bool multirotor = is_multirotor(m.airframe);
+  const double i_cont_pack = m.pack.cell.i_cont_max_A * m.pack.parallel;
+  // Spells above the continuous cell current, for the burst rule: the longest and where it began.
+  bool spell_open = false;
+  double spell_t0 = 0.0;
+  int spell_phase = -1;
+  Peak spell;
+  auto open_spell = [&](double at, int ph) {
+    if (!spell_open) spell_open = true, spell_t0 = at, spell_phase = ph;
+  };
+  auto close_spell = [&](double at) {
+    if (spell_open) spell.see(at - spell_t0, spell_t0, spell_phase);
+    spell_open = false;
+  };
+  std::optional<double> v_takeoff_V;  // loaded bus voltage at take-off
 
   for (std::size_t i = 0; i < m.phases.size() && !stopped; ++i) {
     const Phase& p = m.phases[i];
@@ -306,7 +343,13 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
         ps.shaft_W = setup->shaft_W;
       }
       const auto events = make_events(m, *setup, cutoff, stop_floor);
-      if (i == 0 && phase_steps == 0) watch.start(Sample{t, x, battery::Thevenin{pm, setup->demand}.terminal(x, t)}, 0);
+      motor_i.see(setup->i_motor_A, t, static_cast<int>(i));
+      const battery::Terminal term0 = battery::Thevenin{pm, setup->demand}.terminal(x, t);
+      if (i == 0 && phase_steps == 0) watch.start(Sample{t, x, term0}, 0);
+      if (!v_takeoff_V) v_takeoff_V = term0.v_terminal_V;
+      // A phase boundary is a jump in current: it can open or close a spell.
+      if (term0.current_A > i_cont_pack) open_spell(t, static_cast<int>(i));
+      else close_spell(t);
       SegmentOptions so;
       so.t_end = t + st.duration_s;
       so.sample_s = opts.sample_s;
@@ -319,10 +362,14 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
       so.abs_tol = 1e-9;
       so.rel_tol = 1e-9;
       const double vm = setup->v_motor_V;
+      const bool hover = multirotor && p.kind == Phase::Kind::hover;
       auto track = [&](const Sample& s) {
         ps.v_min_cell_V = std::min(ps.v_min_cell_V, s.term.v_terminal_V / S);
         ps.i_max_A = std::max(ps.i_max_A, s.term.current_A);
         if (vm > 0) ps.duty_max = std::max(ps.duty_max, vm / s.term.v_terminal_V);
+        cell_i.see(s.term.current_A / m.pack.parallel, s.t, static_cast<int>(i));
+        v_sag.see(-s.term.v_terminal_V / S, s.t, static_cast<int>(i));
+        if (hover && vm > 0) hover_duty.see(vm / s.term.v_terminal_V, s.t, static_cast<int>(i));
       };
       const StepHook hook = [&](double ta, double tb, const std::function<Sample(double)>& at) {
         const Sample a = at(ta), mid = at(0.5 * (ta + tb)), b = at(tb);
@@ -351,6 +398,8 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
       }
       for (const auto& w : seg.warnings) {
         const int pi = static_cast<int>(i);
+        if (w.event == kOverCurrent) open_spell(w.at.t, pi);
+        if (w.event == kUnderCurrent) close_spell(w.at.t);
         if (w.event == kResVLoad && !reserve_v_seen) {
           reserve_v_seen = true;
           out.events.push_back({w.at.t, "reserve_v_load", pi,
@@ -379,6 +428,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
       last_h = st.duration_s > 0 ? st.h_start_m + (st.h_end_m - st.h_start_m) * dt / st.duration_s : st.h_end_m;
       t = seg.end.t;
       x = seg.end.x;
+      out.v_load_end_cell_V = seg.end.term.v_terminal_V / S;
       out.temperature_max_C = std::max(out.temperature_max_C, x[battery::kTemp]);
       for (const Sample& sm : seg.samples) out.temperature_max_C = std::max(out.temperature_max_C, sm.x[battery::kTemp]);
       if (seg.stopped) {
@@ -393,11 +443,17 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
           out.end_detail = "loaded cell voltage reached the cutoff " + format_fixed(cutoff, 2) + " V";
         } else if (*seg.stopped == kSaturation) {
           const double avail = prop::thrust_available(m.drive, setup->axial_mps, setup->rho, v);
+          // The drive is solved at its static-equivalent thrust (sim/drive_solve), so the
+          // shortfall is in those terms too.
           const double need = setup->drive_thrust_N;
-          out.end_detail = "the drive cannot give the thrust needed: at " + format_fixed(v, 2) + " V it gives " +
-                           format_fixed(avail, 2) + " N per rotor at full duty, the phase needs " + format_fixed(need, 2) +
-                           " N (short by " + format_fixed(need - avail, 2) + " N, " +
-                           format_fixed(100 * (need - avail) / need, 1) + " %)";
+          // The event sits where d_max·V_bus = V_m, so the shortfall there is tiny: show it with
+          // two significant digits, and say that it grows from here as the pack sags.
+          const double short_N = need - avail;
+          out.end_detail = "the drive reaches full duty at " + format_fixed(v, 2) + " V bus and cannot give the " +
+                           format_fixed(need, 2) + " N per rotor the phase needs below that voltage (at " +
+                           format_fixed(v, 2) + " V it gives " + format_significant(avail, 6) + " N, short by " +
+                           format_significant(short_N, 2) + " N, " + format_significant(100 * short_N / need, 2) +
+                           " %, growing as the pack sags)";
         } else if (*seg.stopped == kCollapse) {
           // At most E²/(4·R0) at the terminals, E = S·OCV − v1 − v2 (sim/discharge.hpp max_power_W).
           const double emf = seg.end.term.v_ocv_V - seg.end.x[battery::kV1] - seg.end.x[battery::kV2];
@@ -469,6 +525,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
     out.events.push_back({it->first_s, "model_range", it->phase, describe(*it)});
     ++it;
   }
+  close_spell(t);
   std::stable_sort(out.events.begin(), out.events.end(),
                    [](const MissionEvent& a, const MissionEvent& b) { return a.t_s < b.t_s; });
 
@@ -488,7 +545,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
   out.landing.energy_Wh = stored_energy_Wh(m.pack, std::max(0.0, x[battery::kSoc]));
   out.landing.v_rest_cell_V = pm.ocv_cell_V(x[battery::kSoc]);
   out.landing.temperature_C = x[battery::kTemp];
-  out.landing.v_load_cell_V = out.trace.empty() ? out.v_min_cell_V : out.trace.back().s.term.v_terminal_V / S;
+  out.landing.v_load_cell_V = v_takeoff_V ? out.v_load_end_cell_V : pm.ocv_cell_V(x[battery::kSoc]);
   (void)rest;
 
   // Time on station left at landing: hover (multirotor) or loiter at the minimum-power speed
@@ -513,31 +570,114 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
       auto ev = make_events(m, *setup, floor_v, opts.accept_extrapolation ? -1.0 : out.soc_floor_covered);
       ev.erase(ev.begin() + kEmpty + 1, ev.begin() + kCoverage);  // terminal events only
       SegmentOptions so;
-      // No end time: the hover or loiter draws power, so the floor, saturation, power collapse
-      // or the empty pack always ends the run; the step cap bounds it.
+      // No end time: the hold runs until its loaded voltage floor, saturation, power collapse
+      // or an empty pack ends it (one of them always does: the charge only falls), within the
+      // phase step cap.
       so.abs_tol = 1e-9;
       so.rel_tol = 1e-9;
       so.max_steps = opts.max_steps_per_phase;
       so.context = "reserve time at landing";
       const auto seg = run_segment(pm, setup->demand, t, x, ev, so);
       out.reserve_time_s = seg.end.t - t;
+      out.reserve_time_end = seg.stopped ? ev[*seg.stopped].kind : "";
+    } else {
+      out.reserve_time_end = "refused: " + why;
     }
   }
 
-  // Rules at landing.
-  auto rule = [&](std::string name, std::string unit, double req, double act) {
-    out.rules.push_back({std::move(name), std::move(unit), req, act, act - req, act >= req});
+  // Rules at landing (reserves) and in flight (limits). A landing rule of a flight that ended
+  // early is not reached: it fails, and reports say so instead of showing a value.
+  auto rule = [&](std::string name, std::string unit, double req, double act) -> RuleCheck& {
+    RuleCheck r;
+    r.name = std::move(name);
+    r.unit = std::move(unit);
+    r.required = req;
+    r.actual = act;
+    r.margin = act - req;
+    r.pass = act >= req;
+    out.rules.push_back(std::move(r));
+    return out.rules.back();
+  };
+  auto limit = [&](std::string name, std::string unit, double lim, double act, double at, int ph) -> RuleCheck& {
+    RuleCheck& r = rule(std::move(name), std::move(unit), lim, act);
+    r.is_max = true;
+    r.margin = lim - act;
+    r.pass = act <= lim;
+    r.t_s = at;
+    r.phase = ph;
+    return r;
+  };
+  auto at_landing = [&](RuleCheck& r) {
+    r.t_s = t;
+    r.reached = out.completed;
+    if (!out.completed) r.pass = false;
   };
   rule("mission_flown", "s", planned_total, out.flight_time_s);
   out.rules.back().pass = out.completed;
-  if (m.reserve.soc_min) rule("soc_min", "", *m.reserve.soc_min, out.completed ? out.landing.soc : 0.0);
+  out.rules.back().t_s = t;
+  if (m.reserve.soc_min) at_landing(rule("soc_min", "", *m.reserve.soc_min, out.landing.soc));
   // Below the covered floor the OCV is invented: a landing there fails unless accepted.
   if (out.soc_floor_covered > 0 && !opts.accept_extrapolation)
-    rule("soc_covered", "", out.soc_floor_covered, out.completed ? out.landing.soc : 0.0);
-  if (m.reserve.hover_s) rule("hover_s", "s", *m.reserve.hover_s, out.completed ? out.reserve_time_s : 0.0);
+    at_landing(rule("soc_covered", "", out.soc_floor_covered, out.landing.soc));
+  if (m.reserve.hover_s) {
+    RuleCheck& r = rule("hover_s", "s", *m.reserve.hover_s, out.reserve_time_s);
+    at_landing(r);
+    if (out.reserve_time_end.rfind("refused: ", 0) == 0) {
+      r.pass = false;
+      r.note = "the hold at the field cannot be flown: " + out.reserve_time_end.substr(9);
+    }
+  }
   if (m.reserve.v_rest_cell_min_V)
-    rule("v_rest_cell_min_V", "V", *m.reserve.v_rest_cell_min_V, out.completed ? out.landing.v_rest_cell_V : 0.0);
-  if (m.reserve.v_load_cell_min_V) rule("v_load_cell_min_V", "V", *m.reserve.v_load_cell_min_V, out.v_min_cell_V);
+    at_landing(rule("v_rest_cell_min_V", "V", *m.reserve.v_rest_cell_min_V, out.landing.v_rest_cell_V));
+  if (m.reserve.v_load_cell_min_V) {
+    RuleCheck& r = rule("v_load_cell_min_V", "V", *m.reserve.v_load_cell_min_V, out.v_min_cell_V);
+    r.t_s = v_sag.t;
+    r.phase = v_sag.phase;
+  }
+  // Cell current: the continuous limit at every instant, or with a burst rating the burst
+  // current at every instant and spells above the continuous limit no longer than burst_s.
+  if (cell_i.phase >= 0) {
+    const auto& burst = m.pack.cell.burst;
+    if (!burst) {
+      limit("cell_current_cont_A", "A", m.pack.cell.i_cont_max_A, cell_i.v, cell_i.t, cell_i.phase).note =
+          "per cell, at every instant; burst rule not checked: the cell gives no i_burst_max_A and burst_s";
+    } else {
+      limit("cell_current_burst_A", "A", burst->i_max_A, cell_i.v, cell_i.t, cell_i.phase).note =
+          "per cell, at every instant";
+      const double held = spell.phase >= 0 ? spell.v : 0.0;
+      limit("cell_current_cont_s", "s", burst->duration_s, held, spell.phase >= 0 ? spell.t : 0.0, spell.phase).note =
+          "longest spell above the continuous " + format_fixed(m.pack.cell.i_cont_max_A, 1) + " A per cell";
+    }
+  }
+  if (motor_i.phase >= 0) {
+    limit("motor_current_A", "A", m.drive.motor.i_max_A, motor_i.v, motor_i.t, motor_i.phase).length_dependent = false;
+    limit("esc_current_A", "A", m.drive.esc.i_max_A, motor_i.v, motor_i.t, motor_i.phase).length_dependent = false;
+  }
+  if (const auto mtom = flight::mtom_kg(m.airframe)) {
+    RuleCheck& r = limit("mtom_kg", "kg", *mtom, out.all_up_mass_kg, 0.0, 0);
+    r.length_dependent = false;
+    r.note = "all-up mass at take-off against the airframe's mtom_kg";
+  }
+  if (multirotor && v_takeoff_V) {
+    // Thrust-to-weight: every rotor at full duty, static (no axial flow), in the air at the
+    // field, at the loaded bus voltage at take-off: T/W = N·T_max(V) / (m·g0).
+    const auto air = m.environment.atmosphere.at(0.0);
+    const double rho = air ? air->density_kg_m3 : 1.225;
+    const double tmax = m.drive.rotors * prop::thrust_available(m.drive, 0.0, rho, *v_takeoff_V);
+    const double tw = tmax / (out.all_up_mass_kg * flight::kStandardGravity);
+    RuleCheck& r = rule("thrust_to_weight", "", m.reserve.thrust_to_weight_min.value_or(flight::kDefaultThrustToWeightMin), tw);
+    r.t_s = 0.0;
+    r.phase = 0;
+    r.length_dependent = false;
+    r.note = std::string("full-duty static thrust at the loaded take-off voltage ") + format_fixed(*v_takeoff_V, 2) +
+             " V over the weight" + (m.reserve.thrust_to_weight_min ? "" : "; 2:1 minimum by default (common practice)");
+  }
+  if (hover_duty.phase >= 0) {
+    limit("hover_duty_max", "", m.reserve.hover_duty_max.value_or(flight::kDefaultHoverDutyMax), hover_duty.v,
+          hover_duty.t, hover_duty.phase)
+        .note = m.reserve.hover_duty_max ? "highest duty in a hover"
+                                         : "highest duty in a hover; 0.80 by default, a fifth left for control (common practice)";
+  }
   out.go = std::all_of(out.rules.begin(), out.rules.end(), [](const RuleCheck& r) { return r.pass; });
   return out;
 }
@@ -559,25 +699,24 @@ Mission lengthened(const Mission& m, std::size_t i, double delta_s) {
   return out;
 }
 
-namespace {
-
-/// The smallest relative margin over the rules and the completion of the flight, and its name.
 /// Continuous across the boundary where a flight stops completing: a completed flight's
 /// completion margin is its closeness to the cutoff and to full duty, an incomplete one's is
 /// minus the fraction not flown.
 std::pair<double, std::string> smallest_margin(const Mission& m, const MissionResult& r) {
   double best = kInf;
   std::string name;
-  auto consider = [&](double v, const std::string& n) {
-    if (v < best) {
-      best = v;
-      name = n;
-    }
-  };
+  for (const auto& [v, n] : rule_margins(m, r))
+    if (v < best) best = v, name = n;
+  return {best, name};
+}
+
+std::vector<std::pair<double, std::string>> rule_margins(const Mission& m, const MissionResult& r) {
+  std::vector<std::pair<double, std::string>> out;
+  auto consider = [&](double v, const std::string& n) { out.emplace_back(v, n); };
   const double planned = r.rules.front().required;
   if (!r.completed) {
     consider(-(planned - r.flight_time_s) / std::max(planned, 1.0), r.end_kind);
-    return {best, name};
+    return out;
   }
   const double cutoff = m.pack.cell.v_cutoff_V;
   consider((r.v_min_cell_V - cutoff) / cutoff, "cutoff_voltage");
@@ -585,12 +724,85 @@ std::pair<double, std::string> smallest_margin(const Mission& m, const MissionRe
   for (const auto& p : r.phases) duty_max = std::max(duty_max, p.duty_max);
   consider((m.drive.esc.duty_max - duty_max) / m.drive.esc.duty_max, "saturation");
   for (const auto& rule : r.rules) {
-    if (rule.name == "mission_flown") continue;
+    if (rule.name == "mission_flown" || !rule.length_dependent) continue;
     const double scale = rule.name == "soc_min" || rule.name == "soc_covered" ? 1.0 : rule.name == "hover_s" ? std::max(rule.required, 60.0)
                                                                                : rule.required;
     consider(rule.margin / scale, rule.name);
   }
-  return {best, name};
+  return out;
+}
+
+double predicted_root(const std::vector<std::pair<double, std::string>>& a,
+                      const std::vector<std::pair<double, std::string>>& b, double xa, double xb) {
+  // Each margin nearly linear in x: its zero at xa + v_a·(xb − xa)/(v_a − v_b); the first to
+  // reach zero binds.
+  double r = kInf;
+  for (const auto& [va, na] : a)
+    for (const auto& [vb, nb] : b)
+      if (na == nb && va >= 0.0 && vb < va) r = std::min(r, xa + va * (xb - xa) / (va - vb));
+  return std::isfinite(r) ? r : std::numeric_limits<double>::quiet_NaN();
+}
+
+void narrow_bracket(const std::function<double(double)>& f, double& lo, double& hi, double& flo, double& fhi,
+                    double guess) {
+  if (!(hi > lo) || flo == fhi) return;
+  // Linear interpolation of the ends: r = lo + f(lo)·(hi − lo)/(f(lo) − f(hi)).
+  const double r = std::isfinite(guess) ? guess : lo + flo * (hi - lo) / (flo - fhi);
+  const double d = std::max(0.5, 0.002 * (hi - lo));
+  for (double x : {r + d, r - d}) {
+    if (!(x > lo && x < hi)) continue;
+    const double fx = f(x);
+    if ((fx >= 0.0) == (flo >= 0.0)) lo = x, flo = fx;
+    else hi = x, fhi = fx;
+  }
+}
+
+namespace {
+
+/// The longest cruise leg given by distance, if any.
+std::optional<std::size_t> longest_leg(const Mission& m) {
+  std::optional<std::size_t> best;
+  for (std::size_t k = 0; k < m.phases.size(); ++k) {
+    const Phase& p = m.phases[k];
+    if (p.kind != Phase::Kind::cruise || !p.distance_m) continue;
+    if (!best || *p.distance_m > *m.phases[*best].distance_m) best = k;
+  }
+  return best;
+}
+
+/// With the spare phase removed and the mission still failing: how many metres of the longest
+/// cruise leg must go as well (TOMS 748 to 0.5 m), or none when even 1 m of it is too much.
+template <class Run>
+void solve_leg_cut(const Mission& m, std::size_t spare, SpareResult& out, Run& run_mission) {
+  const auto leg = longest_leg(m);
+  if (!leg) {
+    out.note = "the mission fails even without phase " + std::to_string(spare + 1) + ", and it has no cruise leg to shorten";
+    return;
+  }
+  const Mission without = lengthened(m, spare, -planned_duration_s(m, spare).value_or(0.0));
+  const double dist = *m.phases[*leg].distance_m;
+  auto cut = [&](double c) {
+    Mission mm = without;
+    mm.phases[*leg].distance_m = std::max(dist - c, 1.0);
+    return smallest_margin(mm, run_mission(mm, "the cut of leg " + std::to_string(*leg + 1) + " (last tried " +
+                                                   format_number(c) + " m)"))
+        .first;
+  };
+  const double lo = 0.0, hi = dist - 1.0;  // metres cut
+  const double flo = smallest_margin(m, run_mission(without, "the mission without its spare phase")).first;
+  const double fhi = cut(hi);
+  out.cut_leg = leg;
+  if (fhi < 0.0) {
+    out.note = "the mission fails even without phase " + std::to_string(spare + 1) + " and with phase " +
+               std::to_string(*leg + 1) + " cut to 1 m";
+    return;
+  }
+  double a = lo, b = hi, fa = flo, fb = fhi;
+  narrow_bracket(cut, a, b, fa, fb);
+  const double root = find_root(cut, a, b, fa, fb, 0.5, 100).value_or(b);
+  out.cut_leg_m = std::min(root + 0.5, hi);
+  out.note = "remove phase " + std::to_string(spare + 1) + " and shorten phase " + std::to_string(*leg + 1) + " by " +
+             format_fixed(*out.cut_leg_m, 0) + " m";
 }
 
 }  // namespace
@@ -600,6 +812,8 @@ SpareResult solve_spare(const Mission& m_in, const MissionResult& base, const Sp
   const Mission m = with_resolved_airspeeds(m_in);
   SpareResult out;
   out.phase = spare_phase(m);
+  for (const auto& r : base.rules)
+    if (!r.pass && !r.length_dependent) out.fixed_failures.push_back(r.name);
   if (!out.phase) {
     out.note = "no hover, loiter or phase marked spare to lengthen";
     return out;
@@ -613,50 +827,84 @@ SpareResult solve_spare(const Mission& m_in, const MissionResult& base, const Sp
   const double base_len = planned_duration_s(m, i).value_or(0.0);
   SimOptions so = opts.sim;
   so.sample_s = 0.0;
-  auto run = [&](double delta) {
+  auto run_mission = [&](const Mission& mm, const std::string& what) {
     if (out.simulations >= opts.max_simulations)
       throw LimitError("spare-time solve stopped after " + std::to_string(opts.max_simulations) +
-                       " whole-mission simulations without locating the spare time of phase " +
-                       std::to_string(i + 1) + " (last tried " + format_number(delta) + " s)");
+                       " whole-mission simulations without locating " + what);
     ++out.simulations;
-    return simulate(lengthened(m, i, delta), so);
+    return simulate(mm, so);
   };
-  auto f = [&](double delta) { return smallest_margin(m, run(delta)).first; };
+  auto run = [&](double delta) {
+    return run_mission(lengthened(m, i, delta), "the spare time of phase " + std::to_string(i + 1) + " (last tried " +
+                                                    format_number(delta) + " s)");
+  };
+  // Each evaluation is kept: the binding rule is read from the nearest failing one.
+  std::vector<std::tuple<double, double, std::string>> seen;
+  std::vector<std::pair<double, std::vector<std::pair<double, std::string>>>> all;  // every rule's margin
+  auto f = [&](double delta) {
+    const MissionResult r = run(delta);
+    auto [v, name] = smallest_margin(m, r);
+    seen.emplace_back(delta, v, name);
+    all.emplace_back(delta, rule_margins(m, r));
+    return v;
+  };
+  all.emplace_back(0.0, rule_margins(m, base));
+  auto margins_at = [&](double x) {
+    for (const auto& [d, v] : all)
+      if (d == x) return v;
+    return std::vector<std::pair<double, std::string>>{};
+  };
   const double f0 = smallest_margin(m, base).first;
   double lo, hi, flo, fhi;
   if (f0 >= 0.0) {
     lo = 0.0;
     flo = f0;
-    hi = std::max(60.0, 0.25 * base_len);
+    hi = std::min(std::max(60.0, 0.25 * base_len), opts.max_spare_s);
     fhi = f(hi);
     while (fhi >= 0.0) {
-      if (hi > 1e6) {
+      if (hi >= opts.max_spare_s) {
+        // Stated as a bound: every rule still holds with this much added, and the search stops.
         out.spare_s = hi;
-        out.note = "more than " + format_fixed(hi / 3600, 0) + " h";
+        out.capped = true;
+        out.note = "every rule still holds with " + format_fixed(hi, 0) + " s added; the search stops there";
         return out;
       }
+      // Next try: past the root the last two points predict (margins fall nearly linearly with
+      // the added time), at least 1 s further and at most eight times as far.
+      const double slope = (fhi - flo) / (hi - lo);
+      double next = 2.0 * hi;
+      if (slope < 0.0) next = std::clamp(hi - fhi / slope + 0.02 * (hi - lo) + 1.0, hi + 1.0, 8.0 * hi);
+      const double pr = predicted_root(margins_at(lo), margins_at(hi), lo, hi);
+      if (std::isfinite(pr) && pr > hi) next = std::clamp(pr + 0.02 * (hi - lo) + 1.0, hi + 1.0, 8.0 * hi);
       lo = hi;
       flo = fhi;
-      hi *= 2.0;
+      hi = std::min(next, opts.max_spare_s);
       fhi = f(hi);
     }
   } else {
     hi = 0.0;
     fhi = f0;
     lo = -base_len;
-    flo = f(lo);
+    const MissionResult without = run(lo);
+    const auto [m_without, rule_without] = smallest_margin(m, without);
+    all.emplace_back(lo, rule_margins(m, without));
+    flo = m_without;
     if (flo < 0.0) {
       out.spare_s = -base_len;
       out.bounded = false;
-      out.binding_rule = smallest_margin(m, run(lo)).second;
-      out.note = "the mission fails even without this phase";
+      out.binding_rule = rule_without;
+      solve_leg_cut(m, i, out, run_mission);
       return out;
     }
   }
+  narrow_bracket(f, lo, hi, flo, fhi, predicted_root(margins_at(lo), margins_at(hi), lo, hi));
   const double root = find_root(f, lo, hi, flo, fhi, 0.05, 100).value_or(lo);
   // Report the side of the bracket where every rule still holds.
   out.spare_s = root;
-  out.binding_rule = smallest_margin(m, run(root + 0.05)).second;
+  // The rule failing just past the root: from an evaluation within 1 s past it, else one more.
+  for (const auto& [d, v, name] : seen)
+    if (v < 0.0 && d > root && d - root <= 1.0 && out.binding_rule.empty()) out.binding_rule = name;
+  if (out.binding_rule.empty()) out.binding_rule = smallest_margin(m, run(root + 0.05)).second;
   return out;
 }
 

@@ -3,6 +3,8 @@
 /// drive's operating point for it, and the pack's Thevenin ODE under the bus power that point
 /// draws, P(V) = a + b·V (the ESC's switching loss grows with bus voltage). Events and reserve
 /// crossings are located on the dense output; the rules are checked at landing.
+#include <functional>
+#include <limits>
 #include <optional>
 #include <string>
 #include <vector>
@@ -81,13 +83,28 @@ struct MissionEvent {
   std::string detail;
 };
 
+/// One rule of the verdict: a reserve at landing or a limit in flight. Every failing rule makes
+/// the verdict no-go.
 struct RuleCheck {
   std::string name;
   std::string unit;
-  double required = 0.0;
-  double actual = 0.0;
-  double margin = 0.0;  ///< actual − required (in the rule's unit)
+  double required = 0.0;  ///< the limit: a minimum, or a maximum when is_max
+  double actual = 0.0;    ///< the value reached (the worst over the flight for a limit in flight)
+  /// Room left in the rule's unit, positive when it holds: actual − required for a minimum,
+  /// required − actual for a maximum.
+  double margin = 0.0;
   bool pass = false;
+  bool is_max = false;
+  /// False when the flight ended before the value exists (a landing rule of a flight that ended
+  /// early): `actual` is then meaningless and reports show "not reached".
+  bool reached = true;
+  /// Where the value was reached: time from take-off and phase index (-1: at landing).
+  double t_s = 0.0;
+  int phase = -1;
+  /// Depends on the mission's length (spare and turn-home solves move it); false for limits set
+  /// by the aircraft alone (take-off mass, thrust-to-weight, motor and ESC current).
+  bool length_dependent = true;
+  std::string note;  ///< how the limit was set, or what is not checked
 };
 
 /// One trace row: the pack sample and what the drive did.
@@ -127,6 +144,10 @@ struct MissionResult {
   double temperature_start_C = 0.0, temperature_max_C = 0.0, air_C = 0.0;  ///< cell, cell, air
   Landing landing;
   double reserve_time_s = 0.0;  ///< time on station left at landing (hover or loiter), s
+  /// What ended that time on station: the loaded voltage floor (cutoff_voltage), saturation,
+  /// power_collapse or soc_floor; empty when not computed.
+  std::string reserve_time_end;
+  double v_load_end_cell_V = 0.0;  ///< loaded cell voltage at the end of the flight, V
   /// Fixed wing only: stall, minimum-power and maximum-L/D speeds at the all-up mass in the
   /// air at the field.
   std::optional<flight::WingSpeeds> wing_speeds;
@@ -152,9 +173,20 @@ std::optional<std::size_t> spare_phase(const Mission& m);
 
 struct SpareResult {
   std::optional<std::size_t> phase;  ///< none: nothing to lengthen
-  double spare_s = 0.0;              ///< + time that could be added, − time to cut
+  /// + time that could be added, − time to cut; meaningful only when `bounded` and not `capped`
+  double spare_s = 0.0;
   std::string binding_rule;          ///< the rule that limits it
   bool bounded = true;               ///< false: even without the phase the mission fails
+  /// The search stopped at SpareOptions::max_spare_s with every rule still met: spare_s is a
+  /// lower bound, not a solved figure.
+  bool capped = false;
+  /// When not bounded: the cruise leg shortened after the spare phase is removed, and by how
+  /// much (none: no leg, or no shortening of it meets the rules).
+  std::optional<std::size_t> cut_leg;
+  std::optional<double> cut_leg_m;
+  /// When not bounded: failing rules no change of length mends (take-off mass, thrust-to-weight,
+  /// motor or ESC current).
+  std::vector<std::string> fixed_failures;
   std::string note;
   int simulations = 0;
 };
@@ -163,12 +195,36 @@ struct SpareOptions {
   /// Whole-mission simulations at most (LimitError beyond): the bracket search takes at most
   /// about 15, TOMS 748 rarely more than 15 more.
   int max_simulations = 150;
+  /// Largest spare time searched, s: a mission that still holds every rule with this much added
+  /// reports `capped` (about 11.6 days: no small electric aircraft gets there).
+  double max_spare_s = 1e6;
   SimOptions sim;  ///< for each of them (its trace spacing is ignored: no trace is kept)
 };
 
 /// How much longer the spare phase could last with every rule still met: the root of the
 /// smallest relative rule margin over whole-mission simulations (TOMS 748, to 0.05 s).
 SpareResult solve_spare(const Mission& m, const MissionResult& base, const SpareOptions& opts = {});
+
+/// The smallest relative margin over the length-dependent rules and the completion of the
+/// flight, and the rule it belongs to (negative: a rule fails). Continuous across the point
+/// where a flight stops completing.
+std::pair<double, std::string> smallest_margin(const Mission& m, const MissionResult& r);
+
+/// Narrow a sign-changing bracket [lo, hi] of f by two evaluations either side of the linear
+/// interpolation of its ends (max(0.5, 0.002·(hi − lo)) away): a rule margin is nearly linear in
+/// the added time, so the root usually lands inside, and TOMS 748 then starts on a bracket of a
+/// second. Both ends stay a valid bracket whatever f does.
+/// `guess`: a better prediction of the root than the interpolation (NaN: none).
+void narrow_bracket(const std::function<double(double)>& f, double& lo, double& hi, double& flo, double& fhi,
+                    double guess = std::numeric_limits<double>::quiet_NaN());
+
+/// Every length-dependent margin smallest_margin takes the least of, with its rule's name.
+std::vector<std::pair<double, std::string>> rule_margins(const Mission& m, const MissionResult& r);
+
+/// Where the first of the margins reaches zero if each is linear between xa and xb (NaN: none
+/// falls).
+double predicted_root(const std::vector<std::pair<double, std::string>>& a,
+                      const std::vector<std::pair<double, std::string>>& b, double xa, double xb);
 
 /// The mission with phase `i` lengthened (or shortened) by `delta_s` seconds of flight.
 Mission lengthened(const Mission& m, std::size_t i, double delta_s);

@@ -141,7 +141,7 @@ TEST_CASE("fly: --pack replaces the profile's pack — --trace has the mission c
   CHECK(json::parse(r.out)["pack"]["layout"] == "4S1P");
   CHECK(json::parse(r.out)["verdict"] == "go");
   const std::string csv = read_file(tr);
-  CHECK(csv.rfind("time_s,current_A,v_terminal_V,v_ocv_V,soc,power_W,phase,duty,thrust_N,cell_temperature_C\n", 0) == 0);
+  CHECK(csv.rfind("time_s,current_A,v_terminal_V,v_ocv_V,soc,power_W,phase,duty,thrust_N,cell_temperature_C,height_m,past_turn_home\n", 0) == 0);
 }
 
 TEST_CASE("fly: bad profiles are refused with a pointer and no output") {
