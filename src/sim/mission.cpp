@@ -568,6 +568,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
       const double floor_v = std::max(cutoff, m.reserve.v_load_cell_min_V.value_or(0.0));
       // Down to the covered SoC floor only, unless extrapolation is accepted.
       auto ev = make_events(m, *setup, floor_v, opts.accept_extrapolation ? -1.0 : out.soc_floor_covered);
+      ev.resize(kCoverage + 1);                                    // no spell watch in the hold
       ev.erase(ev.begin() + kEmpty + 1, ev.begin() + kCoverage);  // terminal events only
       SegmentOptions so;
       // No end time: the hold runs until its loaded voltage floor, saturation, power collapse

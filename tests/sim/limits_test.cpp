@@ -4,6 +4,8 @@
 // checked by flying the mission with the return written out by hand.
 #include <doctest/doctest.h>
 
+#include <algorithm>
+
 #include <cmath>
 #include <string>
 
@@ -127,13 +129,18 @@ TEST_CASE("cell burst current: a spell above the continuous limit longer than bu
     if (tp.phase == 1) (i_hover0 == 0 ? i_hover0 : i_hover1) = tp.s.term.current_A, i_hover1 = tp.s.term.current_A;
   REQUIRE(i_hover1 > i_hover0);
   const double i_cont = 0.5 * (i_hover0 + i_hover1);
-  double first = -1, last = -1;
-  for (const auto& tp : base.trace)
+  // The longest run of trace points above the limit (a climb that draws more than the early
+  // hover is a spell of its own, closed when the hover starts below the limit).
+  double spell = 0, first = -1, last = -1;
+  for (const auto& tp : base.trace) {
     if (tp.s.term.current_A > i_cont) {
       if (first < 0) first = tp.s.t;
       last = tp.s.t;
+    } else {
+      first = -1;
     }
-  const double spell = last - first;
+    if (first >= 0) spell = std::max(spell, last - first);
+  }
   MESSAGE("spell above " << i_cont << " A: " << spell << " s");
   m.pack.cell.i_cont_max_A = i_cont;
   m.pack.cell.burst = battery::Burst{2.0 * i_hover1, spell - 0.5};
