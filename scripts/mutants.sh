@@ -88,7 +88,9 @@ mutant all_up_without_payload src/flight/airframe.cpp \
 
 # --- sim: mission, rules, spare ----------------------------------------------------------------
 mutant rule_met_exactly_fails src/sim/mission.cpp \
-  'act - req, act >= req});' 'act - req, act > req});'
+  'r.pass = act >= req;' 'r.pass = act > req;'
+mutant limit_met_exactly_fails src/sim/mission.cpp \
+  'r.pass = act <= lim;' 'r.pass = act < lim;'
 mutant reserve_floor_min src/sim/mission.cpp \
   'std::max(cutoff, m.reserve.v_load_cell_min_V.value_or(0.0))' 'std::min(cutoff, m.reserve.v_load_cell_min_V.value_or(0.0))'
 mutant cutoff_on_ocv src/sim/mission.cpp \
@@ -103,9 +105,9 @@ mutant spare_margin_sign src/sim/mission.cpp \
   'consider(rule.margin / scale, rule.name);' 'consider(-rule.margin / scale, rule.name);'
 
 # --- io: parsers -------------------------------------------------------------------------------
-mutant json_open_low_bound_closed src/io/json_reader.cpp \
+mutant range_open_low_bound_closed src/core/range.cpp \
   'if (lo_open ? !(v > lo) : !(v >= lo)) return false;' 'if (lo_open ? !(v >= lo) : !(v >= lo)) return false;'
-mutant json_closed_high_bound_open src/io/json_reader.cpp \
+mutant range_closed_high_bound_open src/core/range.cpp \
   'if (hi_open ? !(v < hi) : !(v <= hi)) return false;' 'if (hi_open ? !(v < hi) : !(v < hi)) return false;'
 mutant json_table_x_not_strict src/io/json_reader.cpp \
   'if (!(v[i] > v[i - 1]))' 'if (!(v[i] >= v[i - 1]))'
