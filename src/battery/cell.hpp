@@ -33,6 +33,19 @@ struct Thermal {
 /// discharging lithium cells (common practice; the maker's own figure comes first).
 inline constexpr double kCellHotC = 60.0;
 
+/// The ranges the data a cell model was fitted on covered (cell JSON key "coverage"; written by
+/// `fit cell`): outside them the model's figures are extrapolated. Current per cell, discharge
+/// positive.
+struct CellCoverage {
+  double soc_min = 0.0;
+  double soc_max = 1.0;
+  double current_max_A = 0.0;  ///< largest discharge current, A
+  double current_min_A = 0.0;  ///< most negative current (largest charge), A
+  std::optional<double> temperature_min_C;  ///< with a temperature column
+  std::optional<double> temperature_max_C;
+  std::string source;          ///< "fit cell <log file names>"
+};
+
 struct Cell {
   std::string name;
   std::string chemistry;
@@ -46,6 +59,7 @@ struct Cell {
   std::vector<RcPair> rc;      ///< zero, one or two RC pairs
   std::optional<TemperatureEffect> temperature;
   std::optional<Thermal> thermal;  ///< none: the cell stays at the pack temperature
+  std::optional<CellCoverage> coverage;  ///< none: not recorded (a hand-written model)
 
   /// Resistance multiplier at `temperature_C` (1 without a temperature table).
   double r_factor(double temperature_C) const {

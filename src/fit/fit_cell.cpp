@@ -7,6 +7,7 @@
 
 #include "core/error.hpp"
 #include "core/text.hpp"
+#include "fit/chemistry.hpp"
 #include "fit/ocv.hpp"
 #include "fit/rc_fit.hpp"
 
@@ -168,10 +169,14 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
   }
 
   // --- 1. SoC ---
-  out.soc_estimate = estimate_soc(log, opts.soc);
+  SocOptions so = opts.soc;
+  if (so.chemistry.empty()) so.chemistry = opts.chemistry;
+  out.soc_estimate = estimate_soc(log, so);
   const SocEstimate& se = out.soc_estimate;
   out.soc = se.soc;
   for (const auto& w : se.warnings) out.warnings.push_back(w);
+  for (const auto& w : se.notes) out.notes.push_back(w);
+  if (se.chemistry) out.notes.push_back("chemistry " + se.chemistry->name + ", " + se.chemistry->how);
   const std::vector<double>& soc = out.soc;
   const double Q = se.capacity_Ah;
   const std::vector<char> use = rows_to_count(log, se);
@@ -454,15 +459,32 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
         break;
       }
 
-  // --- OCV: the fitted grid where the data reach, extended linearly beyond ---
-  if (s_lo > 0.05)
-    out.warnings.push_back("the log reaches down to SoC " + format_fixed(s_lo, 3) + " only: the OCV below is extrapolated");
-  if (s_hi < 0.95)
-    out.warnings.push_back("the log reaches up to SoC " + format_fixed(s_hi, 3) + " only: the OCV above is extrapolated");
+  // --- OCV: the fitted grid over the SoC the counted rows cover, and at most kOcvMarginSoc
+  // beyond (the second-difference penalty extends the fitted curve linearly there) ---
+  const double cov_lo = std::max(0.0, s_lo), cov_hi = std::min(1.0, s_hi);
+  const double ocv_lo = std::max(0.0, cov_lo - kOcvMarginSoc), ocv_hi = std::min(1.0, cov_hi + kOcvMarginSoc);
+  if (ocv_lo > 1e-9)
+    out.warnings.push_back("the log reaches down to SoC " + format_fixed(s_lo, 3) + " only: the OCV table stops at SoC " +
+                           format_fixed(ocv_lo, 3) + " (" + format_fixed(100 * kOcvMarginSoc, 0) +
+                           " % below the data); a run below it is outside the model's coverage");
+  if (ocv_hi < 1.0 - 1e-9)
+    out.warnings.push_back("the log reaches up to SoC " + format_fixed(s_hi, 3) + " only: the OCV table stops at SoC " +
+                           format_fixed(ocv_hi, 3) + "; a run above it is outside the model's coverage");
   std::vector<double> g01, v01;
   for (std::size_t o = 0; o < grid.size(); ++o)
-    if (grid[o] >= -1e-9 && grid[o] <= 1.0 + 1e-9) g01.push_back(std::clamp(grid[o], 0.0, 1.0)), v01.push_back(final_s.ocv_V[o]);
+    if (grid[o] >= ocv_lo - 1e-9 && grid[o] <= ocv_hi + 1e-9)
+      g01.push_back(std::clamp(grid[o], ocv_lo, ocv_hi)), v01.push_back(final_s.ocv_V[o]);
   const Table ocv = ocv_table_from_grid(g01, v01, 0.0005, out.warnings);
+  if (se.chemistry) {
+    const Chemistry& ch = *se.chemistry;
+    if (ocv.y().front() < ch.ocv_min_V - 1e-9 || ocv.y().back() > ch.ocv_max_V + 1e-9) {
+      out.ocv_physical = false;
+      out.warnings.push_back("the fitted OCV runs from " + format_fixed(ocv.y().front(), 3) + " to " +
+                             format_fixed(ocv.y().back(), 3) + " V, outside what a " + ch.name + " cell can show (" +
+                             format_fixed(ch.ocv_min_V, 2) + " to " + format_fixed(ch.ocv_max_V, 2) +
+                             " V): the SoC scale or the chemistry is wrong; the fit fails its quality gate");
+    }
+  }
 
   // --- the model ---
   battery::Cell& c = out.cell;
@@ -479,20 +501,35 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
     rc.tau_s = tau_table ? final_t.tau_table(p) : Table(final_t.tau_s[p][0]);
     c.rc.push_back(rc);
   }
-  double vmax_seen = 0.0, vmin_seen = 1e300, idis_max = 0.0;
+  double idis_max = 0.0, ichg_max = 0.0;
   for (std::size_t k = 0; k < n; ++k) {
-    vmax_seen = std::max(vmax_seen, log.voltage_V[k]);
-    vmin_seen = std::min(vmin_seen, log.voltage_V[k]);
     idis_max = std::max(idis_max, log.current_A[k]);
+    ichg_max = std::min(ichg_max, log.current_A[k]);
   }
-  const double v_full = se.v_full_V > 0 && se.v_full_V < 1e299 ? se.v_full_V : vmax_seen;
-  const double v_empty = se.v_empty_V < 1e299 ? se.v_empty_V : vmin_seen;
-  c.v_max_V = opts.soc.v_max_V.value_or(std::round(std::max(v_full, ocv.y().back()) * 100.0) / 100.0);
-  c.v_cutoff_V = opts.soc.v_cutoff_V.value_or(std::floor(v_empty * 100.0 + 1e-6) / 100.0);
+  // Full-charge and cutoff voltages: given, the CV level or the chemistry's (fit/soc); never a
+  // pulse's peak or the lowest voltage seen.
+  if (!(se.v_full_V > 0.0))
+    throw InputError(log.file + ": the full-charge voltage is not known (got no charge that tapered at a constant voltage and "
+                                "no chemistry, expected --v-max-V or --chemistry)");
+  if (!(se.v_empty_V > 0.0))
+    throw InputError(log.file + ": the cutoff voltage is not known (got no chemistry, expected --v-cutoff-V or --chemistry)");
+  c.v_max_V = std::round(se.v_full_V * 1000.0) / 1000.0;
+  c.v_cutoff_V = std::round(se.v_empty_V * 1000.0) / 1000.0;
+  out.notes.push_back("v_max_V " + format_fixed(c.v_max_V, 3) + " V: " + se.v_full_source + "; v_cutoff_V " +
+                      format_fixed(c.v_cutoff_V, 3) + " V: " + se.v_empty_source);
   if (!(c.v_cutoff_V < c.v_max_V))
     throw InputError(log.file + ": the cutoff voltage is not below the maximum voltage (got " + format_fixed(c.v_cutoff_V, 3) +
                      " V and " + format_fixed(c.v_max_V, 3) +
                      " V, expected a log that spans a discharge; give --v-max-V and --v-cutoff-V)");
+  // What the data covered (cell JSON "coverage").
+  battery::CellCoverage cov;
+  cov.soc_min = cov_lo;
+  cov.soc_max = cov_hi;
+  cov.current_max_A = idis_max;
+  cov.current_min_A = ichg_max;
+  if (out.has_temperature) cov.temperature_min_C = out.temperature_min_C, cov.temperature_max_C = out.temperature_max_C;
+  cov.source = "fit cell " + std::filesystem::path(log.file).filename().string();
+  c.coverage = cov;
   // How far the model may be trusted in current: a linear circuit fitted up to one rate held
   // twice that rate to 10 mV on an open dataset of a pouch cell, and missed three times it by
   // 30–38 mV as the cell's polarisation grew faster than the current near empty (README, "Fit

@@ -26,6 +26,10 @@
 
 namespace sortie::fit {
 
+/// How far beyond the SoC its log covers the fitted OCV table reaches (the fitted curve's end
+/// slope carried on): 2 % of SoC. Beyond that the model has no OCV of its own.
+inline constexpr double kOcvMarginSoc = 0.02;
+
 struct CellFitOptions {
   int rc_pairs = 2;            ///< 1 or 2
   SocOptions soc;              ///< capacity, soc0, v_max, v_cutoff
@@ -77,6 +81,7 @@ struct CellFitResult {
   std::vector<BandFit> bands;
   int iterations = 0;         ///< Levenberg–Marquardt steps in all
   LmStatus status = LmStatus::converged;
+  bool ocv_physical = true;   ///< the OCV stays inside the chemistry's bounds
   double fit_rmse_V = 0.0;    ///< of the fit's own recurrence over the rows used
   std::optional<ThermalFit> thermal;  ///< with a temperature column that moves enough
   std::vector<std::string> notes;

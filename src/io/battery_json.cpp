@@ -60,6 +60,24 @@ battery::Cell read_cell(ObjectReader& r) {
     t.finish();
     c.thermal = th;
   }
+  if (r.has("coverage")) {
+    ObjectReader v = r.object("coverage");
+    battery::CellCoverage cov;
+    cov.soc_min = v.number("soc_min", between(0.0, 1.0, ""));
+    cov.soc_max = v.number("soc_max", between(0.0, 1.0, ""));
+    if (cov.soc_max <= cov.soc_min)
+      v.fail("soc_max", "SoC range empty", format_number(cov.soc_max), "above soc_min = " + format_number(cov.soc_min));
+    cov.current_max_A = v.number("current_max_A", between(-1e6, 1e6, "A"));
+    cov.current_min_A = v.number("current_min_A", between(-1e6, 1e6, "A"));
+    if (cov.current_min_A > cov.current_max_A)
+      v.fail("current_min_A", "current range empty", format_number(cov.current_min_A),
+             "at most current_max_A = " + format_number(cov.current_max_A));
+    if (v.has("temperature_min_C")) cov.temperature_min_C = v.number("temperature_min_C", between(-60.0, 100.0, "C"));
+    if (v.has("temperature_max_C")) cov.temperature_max_C = v.number("temperature_max_C", between(-60.0, 100.0, "C"));
+    cov.source = v.string_or("source", "");
+    v.finish();
+    c.coverage = cov;
+  }
   r.finish();
   return c;
 }

@@ -13,8 +13,8 @@ std::string mohm(double ohm) { return fixed(1000.0 * ohm, ohm < 0.01 ? 3 : 2); }
 
 const char* anchor_words(fit::SocAnchor::Kind k) {
   switch (k) {
-    case fit::SocAnchor::Kind::full: return "full (end of a charge at the maximum voltage)";
-    case fit::SocAnchor::Kind::empty: return "empty (end of a discharge at the cutoff)";
+    case fit::SocAnchor::Kind::full: return "full";
+    case fit::SocAnchor::Kind::empty: return "empty";
     case fit::SocAnchor::Kind::given: return "given (--soc0)";
   }
   return "";
@@ -51,7 +51,8 @@ std::string fit_cell_text(const fit::CellLog& log, const fit::CellFitResult& r,
   if (r.has_temperature)
     kv.add("cell temperature", fixed(r.temperature_mean_C, 1) + " °C mean (" + fixed(r.temperature_min_C, 1) +
                                    " to " + fixed(r.temperature_max_C, 1) + " °C)");
-  for (const auto& a : se.anchors) kv.add("known SoC point", std::string(anchor_words(a.kind)) + ", " + where(log, r, a.row));
+  for (const auto& a : se.anchors)
+    kv.add("known SoC point", std::string(anchor_words(a.kind)) + (a.how.empty() ? "" : ": " + a.how) + ", " + where(log, r, a.row));
   kv.add("capacity", fixed(se.capacity_Ah, 3) + " Ah, " + se.capacity_source);
   kv.add("OCV", "fitted with the RC pairs, from " + std::to_string(r.ocv_rest_points) + " rest ends and " +
                     std::to_string(r.ocv_loaded_points) + " low-rate rows to start; table of " +
@@ -136,11 +137,23 @@ nlohmann::ordered_json fit_cell_json(const fit::CellLog& log, const fit::CellFit
   const auto& se = r.soc_estimate;
   nlohmann::ordered_json anchors = nlohmann::ordered_json::array();
   for (const auto& a : se.anchors)
-    anchors.push_back({{"kind", anchor_key(a.kind)}, {"line", log.line[a.row]}, {"soc", a.soc}});
+    anchors.push_back({{"kind", anchor_key(a.kind)}, {"line", log.line[a.row]}, {"soc", a.soc}, {"how", a.how}});
   j["soc"] = {{"capacity_Ah", se.capacity_Ah},
               {"capacity_from_log", se.capacity_from_log},
               {"capacity_source", se.capacity_source},
-              {"known_points", anchors}};
+              {"known_points", anchors},
+              {"v_max_V", r.cell.v_max_V},
+              {"v_max_source", se.v_full_source},
+              {"v_cutoff_V", r.cell.v_cutoff_V},
+              {"v_cutoff_source", se.v_empty_source},
+              {"chemistry", se.chemistry ? nlohmann::ordered_json(se.chemistry->name) : nlohmann::ordered_json()}};
+  if (r.cell.coverage) {
+    const auto& c = *r.cell.coverage;
+    j["coverage"] = {{"soc_min", c.soc_min}, {"soc_max", c.soc_max}, {"current_max_A", c.current_max_A},
+                     {"current_min_A", c.current_min_A}, {"source", c.source}};
+    if (c.temperature_min_C) j["coverage"]["temperature_min_C"] = *c.temperature_min_C;
+    if (c.temperature_max_C) j["coverage"]["temperature_max_C"] = *c.temperature_max_C;
+  }
   j["ocv"] = {{"rest_points", r.ocv_rest_points}, {"loaded_points", r.ocv_loaded_points}, {"table_points", r.cell.ocv_V.size()}};
   j["rc_pairs"] = r.n_rc;
   j["tables"] = r.tables;

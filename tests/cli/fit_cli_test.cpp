@@ -62,7 +62,7 @@ TEST_CASE("fit cell: the bundled synthetic log gives a model that loads and runs
   const std::string model = work_path("fitted-demo.json"), report = work_path("fitted-demo.txt"),
                     js = work_path("fitted-demo-report.json"), trace = work_path("fitted-demo-trace.csv");
   const auto r = run_sortie({"fit", "cell", source_path(kDemoLogFile), "--out", model, "--mass-kg", "0.118",
-                             "--name", "demo LiPo fitted from the synthetic log (invented)", "--report", report,
+                             "--chemistry", "LiPo", "--name", "demo LiPo fitted from the synthetic log (invented)", "--report", report,
                              "--json", js, "--trace", trace});
   REQUIRE_MESSAGE(r.exit_code == 0, r.err);
   CHECK(r.out.find("voltage RMSE") != std::string::npos);
@@ -93,7 +93,7 @@ TEST_CASE("fit cell: a log with no rest is fitted with a warning saying so") {
   for (int k = 0; k < 6000; ++k) i.push_back(k % 130 < 10 ? 20.0 : 2.5);
   const std::string log = replayed_log("no-rest.csv", i, 1.0);
   const std::string out = work_path("no-rest.json");
-  const auto r = run_sortie({"fit", "cell", log, "--out", out, "--soc0", "1", "--capacity-Ah", "5"});
+  const auto r = run_sortie({"fit", "cell", log, "--out", out, "--soc0", "1", "--capacity-Ah", "5", "--chemistry", "LiPo"});
   REQUIRE_MESSAGE(r.exit_code == 0, r.err);
   CHECK(r.out.find("no rest of 300 s or more") != std::string::npos);
   CHECK(io::load_cell_file(out).ocv_V.size() >= 11);
@@ -178,6 +178,7 @@ TEST_CASE("fit cell: a log with a temperature column gives a model with a therma
   p.thermal = true;
   p.air_C = 18.0;
   const sim::SyntheticLog s = sim::synthetic_pulse_test(truth, p, sim::MeasurementNoise{});
+  // Its 4C steps end at the cutoff with charge left (no empty point): --capacity-Ah 5 below.
   std::string csv = "Time (s),Current (A),Voltage (V),Temperature (degC)\n";
   char buf[96];
   for (std::size_t k = 0; k < s.time_s.size(); ++k) {
@@ -186,7 +187,7 @@ TEST_CASE("fit cell: a log with a temperature column gives a model with a therma
   }
   const std::string log = write_work_file("thermal-log.csv", csv);
   const std::string model = work_path("thermal-cell.json");
-  const auto r = run_sortie({"fit", "cell", log, "--out", model, "--mass-kg", "0.118", "--json", "-"});
+  const auto r = run_sortie({"fit", "cell", log, "--out", model, "--mass-kg", "0.118", "--chemistry", "LiPo", "--capacity-Ah", "5", "--json", "-"});
   REQUIRE_MESSAGE(r.exit_code == 0, r.err);
   const json j = json::parse(r.out);
   REQUIRE(j.contains("thermal"));
@@ -195,7 +196,7 @@ TEST_CASE("fit cell: a log with a temperature column gives a model with a therma
   const json cell = json::parse(read_file(model));
   REQUIRE(cell.contains("thermal"));
   CHECK(cell["thermal"]["c_J_per_kgK"] == j["thermal"]["c_J_per_kgK"]);
-  const auto text = run_sortie({"fit", "cell", log, "--out", work_path("thermal-cell-2.json"), "--mass-kg", "0.118"});
+  const auto text = run_sortie({"fit", "cell", log, "--out", work_path("thermal-cell-2.json"), "--mass-kg", "0.118", "--chemistry", "LiPo", "--capacity-Ah", "5"});
   CHECK(text.out.find("thermal block     heat capacity") != std::string::npos);
   // The fitted cell flies, and the pack warms in flight.
   const std::string pack =
