@@ -98,6 +98,15 @@ nlohmann::ordered_json cell_to_json(const battery::Cell& c, const std::string& n
     o["source"] = v.source;
     j["coverage"] = o;
   }
+  if (c.fit_quality) {
+    const battery::CellFitQuality& q = *c.fit_quality;
+    nlohmann::ordered_json o;
+    o["resimulation_rmse_V"] = significant(q.resimulation_rmse_V, 4);
+    if (q.held_out_rmse_V) o["held_out_rmse_V"] = significant(*q.held_out_rmse_V, 4);
+    o["threshold_V"] = q.threshold_V;
+    o["passed"] = q.passed;
+    j["fit_quality"] = o;
+  }
   return j;
 }
 

@@ -71,6 +71,23 @@ std::string fit_cell_text(const fit::CellLog& log, const fit::CellFitResult& r,
                               " rows the fit counts (long charges and the rests after them are left out: the OCV "
                               "on charge lies higher, by hysteresis)");
   kv.add("mean error", fixed(1000.0 * e.all.mean_V, 1) + " mV (model minus measured)");
+  if (r.held_out_rows > 0)
+    kv.add("held-out RMSE", fixed(1000.0 * r.held_out_rmse_V, 1) + " mV over " + std::to_string(r.held_out_rows) +
+                                " rows predicted by fits that did not see them (two folds over " +
+                                std::to_string(r.held_out_blocks) + " blocks between long rests)");
+  if (r.cell.fit_quality)
+    kv.add("quality gate", std::string(r.cell.fit_quality->passed ? "passed" : "FAILED") + " (limit " +
+                               fixed(1000.0 * r.cell.fit_quality->threshold_V, 0) + " mV on the " +
+                               (r.held_out_rows > 0 ? "held-out" : "re-simulation") + " RMSE" +
+                               (r.ocv_physical ? "" : "; OCV outside the chemistry's bounds") + ")");
+  if (r.cell.coverage) {
+    const auto& c = *r.cell.coverage;
+    kv.add("covered", "SoC " + fixed(c.soc_min, 3) + " to " + fixed(c.soc_max, 3) + ", current " + fixed(c.current_min_A, 2) +
+                          " to " + fixed(c.current_max_A, 2) + " A" +
+                          (c.temperature_min_C ? ", " + fixed(*c.temperature_min_C, 1) + " to " + fixed(*c.temperature_max_C, 1) + " °C"
+                                               : std::string()) +
+                          " (written as \"coverage\"; outside it the model extrapolates)");
+  }
   if (r.thermal && r.cell.thermal) {
     const auto& t = *r.thermal;
     kv.add("thermal block", "heat capacity " + fixed(t.heat_capacity_J_per_K, 1) + " J/K (" +
@@ -172,6 +189,14 @@ nlohmann::ordered_json fit_cell_json(const fit::CellLog& log, const fit::CellFit
                     {"temperature_max_error_K", r.thermal->max_error_K}};
   j["voltage_max_error_line"] = e.all.rows ? log.line[e.all.max_row] : 0;
   j["voltage_mean_error_V"] = e.all.mean_V;
+  j["held_out_blocks"] = r.held_out_blocks;
+  j["held_out_rows"] = r.held_out_rows;
+  j["held_out_rmse_V"] = r.held_out_rows > 0 ? nlohmann::ordered_json(r.held_out_rmse_V) : nlohmann::ordered_json();
+  if (r.cell.fit_quality)
+    j["quality"] = {{"passed", r.cell.fit_quality->passed},
+                    {"threshold_V", r.cell.fit_quality->threshold_V},
+                    {"judged_on", r.held_out_rows > 0 ? "held_out" : "resimulation"},
+                    {"ocv_physical", r.ocv_physical}};
   j["counted_rows"] = e.counted.rows;
   j["counted_voltage_rmse_V"] = e.counted.rmse_V;
   j["counted_voltage_max_error_V"] = e.counted.max_abs_V;
