@@ -87,6 +87,31 @@ TEST_CASE("fit cell: the bundled synthetic log gives a model that loads and runs
   CHECK_MESSAGE(d.exit_code == 0, d.err);
 }
 
+TEST_CASE("fit cell: a fit that fails its quality gate exits 4 and writes no model unless accepted") {
+  // The demo LiPo log declared LFP: its fitted OCV (about 3.3 to 4.2 V) lies outside what an LFP
+  // cell can show (2.5 to 3.7 V, fit/chemistry), so the gate fails whatever the RMSE.
+  const std::string model = work_path("gate-model.json");
+  std::vector<std::string> args = {"fit", "cell", source_path(kDemoLogFile), "--out", model,
+                                   "--chemistry", "LFP", "--v-cutoff-V", "3.3"};
+  const auto r = run_sortie(args);
+  CHECK(r.exit_code == 4);
+  CHECK_FALSE(file_exists(model));
+  CHECK(r.out.find("quality gate     FAILED") != std::string::npos);
+  CHECK(r.out.find("outside what a LFP cell can show") != std::string::npos);
+  args.push_back("--accept-poor-fit");
+  const auto a = run_sortie(args);
+  CHECK_MESSAGE(a.exit_code == 0, a.err);
+  const json cell = json::parse(read_file(model));
+  CHECK(cell["fit_quality"]["passed"] == false);
+  // The demo log as a LiPo passes: held-out RMSE within the 20 mV limit.
+  const auto ok = run_sortie({"fit", "cell", source_path(kDemoLogFile), "--out", model, "--chemistry", "LiPo", "--quiet"});
+  CHECK(ok.exit_code == 0);
+  const json good = json::parse(read_file(model));
+  CHECK(good["fit_quality"]["passed"] == true);
+  CHECK(good["fit_quality"]["held_out_rmse_V"].get<double>() < 0.020);
+  CHECK(good["coverage"]["soc_max"].get<double>() == doctest::Approx(1.0).epsilon(0.001));  // rounded inwards
+}
+
 TEST_CASE("fit cell: a log with no rest is fitted with a warning saying so") {
   // Pulses of 4C for 10 s on a 0.5C discharge, never at rest, from full (given by --soc0).
   std::vector<double> i;
