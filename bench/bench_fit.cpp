@@ -31,6 +31,12 @@ const sim::SyntheticLog& log_10h() {
   return log;
 }
 
+fit::CellFitOptions lipo() {
+  fit::CellFitOptions o;
+  o.chemistry = "LiPo";  // the demo cell's
+  return o;
+}
+
 std::string as_csv(const sim::SyntheticLog& s) {
   std::string out = "Time (s),Current (A),Voltage (V)\n";
   char buf[96];
@@ -46,7 +52,7 @@ const bool reg_fit = bench::add_case(
     "fit_cell_10h_1Hz",
     [] {
       static const fit::CellLog log = sim::to_cell_log(log_10h(), "bench");
-      bench::keep(fit::fit_cell(log, fit::CellFitOptions{}).fit_rmse_V);
+      bench::keep(fit::fit_cell(log, lipo()).fit_rmse_V);
     },
     5);
 
@@ -57,7 +63,7 @@ const bool reg_command = bench::add_case(
     [] {
       static const std::string csv = as_csv(log_10h());
       const fit::CellLog log = io::read_cell_log(io::parse_delimited(csv, "bench.csv"), io::CellLogOptions{});
-      const fit::CellFitResult r = fit::fit_cell(log, fit::CellFitOptions{});
+      const fit::CellFitResult r = fit::fit_cell(log, lipo());
       const nlohmann::json j = nlohmann::json::parse(io::cell_to_json(r.cell, r.note).dump());
       io::ObjectReader reader(j, io::Source{"bench.json", {}}, "");
       battery::Pack pack;

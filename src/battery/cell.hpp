@@ -55,6 +55,14 @@ struct Burst {
   double duration_s = 0.0;  ///< s
 };
 
+/// How well the fit that wrote a model did (cell JSON key "fit_quality"; written by `fit cell`).
+struct CellFitQuality {
+  double resimulation_rmse_V = 0.0;         ///< the model re-run on its own logs' current
+  std::optional<double> held_out_rmse_V;    ///< predicted on log parts the fit did not see
+  double threshold_V = 0.0;                 ///< the quality gate's limit on it
+  bool passed = true;                       ///< false: written only because the user accepted it
+};
+
 struct Cell {
   std::string name;
   std::string chemistry;
@@ -70,6 +78,7 @@ struct Cell {
   std::optional<TemperatureEffect> temperature;
   std::optional<Thermal> thermal;  ///< none: the cell stays at the pack temperature
   std::optional<CellCoverage> coverage;  ///< none: not recorded (a hand-written model)
+  std::optional<CellFitQuality> fit_quality;
 
   /// Resistance multiplier at `temperature_C` (1 without a temperature table).
   double r_factor(double temperature_C) const {

@@ -28,8 +28,13 @@ namespace sortie::cli {
 
 namespace {
 
+/// Exit code of `fit cell` when the fit fails its quality gate and --accept-poor-fit is not given.
+constexpr int kExitPoorFit = 4;
+
 struct FitCellOptions {
-  std::string log_file, out_file, columns;
+  std::vector<std::string> log_files;
+  std::string out_file, columns;
+  bool accept_poor_fit = false;
   bool discharge_positive = false, discharge_negative = false;
   std::optional<double> capacity_Ah, soc0, v_max_V, v_cutoff_V, mass_kg, i_cont_max_A, air_C;
   int rc = 2;
@@ -57,7 +62,8 @@ int run_fit_cell(const FitCellOptions& o) {
   lo.series = o.series;
   lo.parallel = o.parallel;
   lo.capacity_Ah = o.capacity_Ah;
-  const fit::CellLog log = io::load_cell_log(o.log_file, lo);
+  std::vector<fit::CellLog> logs;
+  for (const auto& f : o.log_files) logs.push_back(io::load_cell_log(f, lo));
 
   fit::CellFitOptions fo;
   fo.rc_pairs = o.rc;
@@ -75,43 +81,92 @@ int run_fit_cell(const FitCellOptions& o) {
   if (o.v_max_V && o.v_cutoff_V && *o.v_cutoff_V >= *o.v_max_V)
     throw UsageError("--v-cutoff-V: at or above --v-max-V (got " + format_number(*o.v_cutoff_V) + " V, expected below " +
                      format_number(*o.v_max_V) + " V)");
-  const fit::CellFitResult r = fit::fit_cell(log, fo);
+  fit::CellFitResult r = fit::fit_cell(logs, fo);
+  // The log the fit saw: the one file, or the files one after the other (fit_cell's order).
+  fit::CellLog log;
+  if (logs.size() == 1) {
+    log = std::move(logs.front());
+  } else {
+    log.file = "";
+    log.section_starts.clear();
+    for (const auto& l : logs) {
+      for (std::size_t st : l.section_starts) log.section_starts.push_back(log.size() + st);
+      log.file += (log.file.empty() ? "" : " + ") + l.file;
+      log.time_s.insert(log.time_s.end(), l.time_s.begin(), l.time_s.end());
+      log.current_A.insert(log.current_A.end(), l.current_A.begin(), l.current_A.end());
+      log.voltage_V.insert(log.voltage_V.end(), l.voltage_V.begin(), l.voltage_V.end());
+      log.line.insert(log.line.end(), l.line.begin(), l.line.end());
+    }
+  }
 
-  const nlohmann::ordered_json model = io::cell_to_json(r.cell, r.note);
-  const battery::Cell written = reload(model, o.out_file);
-
-  // Re-simulate the written model on the log's current with the integrator the other commands use.
-  battery::Pack pack;
-  pack.cell = written;
-  // The counted SoC at the first row (it may lie a little outside 0..1: "empty" and "full" are
-  // where this log's discharge and charge ended).
-  pack.soc0 = r.soc.front();
-  sim::CurrentLog cl{log.time_s, log.current_A, log.section_starts};
-  const sim::ReplayResult rep = sim::replay(pack, cl);
+  // Re-simulate the model on each log's current with the integrator the other commands use,
+  // each from its own counted SoC at its first row (it may lie a little outside 0..1: "empty"
+  // and "full" are where the log's discharge and charge ended).
+  auto resimulate = [&](const battery::Cell& cell) {
+    std::vector<double> v(log.size());
+    for (std::size_t i = 0; i < r.log_starts.size(); ++i) {
+      const std::size_t a = r.log_starts[i], b = i + 1 < r.log_starts.size() ? r.log_starts[i + 1] : log.size();
+      battery::Pack pack;
+      pack.cell = cell;
+      pack.soc0 = r.soc[a];
+      sim::CurrentLog cl;
+      cl.time_s.assign(log.time_s.begin() + static_cast<std::ptrdiff_t>(a), log.time_s.begin() + static_cast<std::ptrdiff_t>(b));
+      cl.current_A.assign(log.current_A.begin() + static_cast<std::ptrdiff_t>(a), log.current_A.begin() + static_cast<std::ptrdiff_t>(b));
+      for (std::size_t st : log.section_starts)
+        if (st > a && st < b) cl.restarts.push_back(st - a);
+      const sim::ReplayResult rep = sim::replay(pack, cl);
+      std::copy(rep.v_terminal_V.begin(), rep.v_terminal_V.end(), v.begin() + static_cast<std::ptrdiff_t>(a));
+    }
+    return v;
+  };
+  nlohmann::ordered_json model = io::cell_to_json(r.cell, r.note);
+  const std::vector<double> v_model = resimulate(reload(model, o.out_file));
   std::vector<double> centres;
   for (const auto& b : r.bands) centres.push_back(b.soc);
-  fit::VoltageErrors err = fit::voltage_errors(log.voltage_V, rep.v_terminal_V, r.soc, centres);
-  err.counted = fit::voltage_error_where(log.voltage_V, rep.v_terminal_V, r.counted);
+  fit::VoltageErrors err = fit::voltage_errors(log.voltage_V, v_model, r.soc, centres);
+  err.counted = fit::voltage_error_where(log.voltage_V, v_model, r.counted);
+
+  // The quality gate (fit/fit_cell.hpp): the held-out RMSE (else the re-simulation's) within
+  // kQualityMaxRmseV and an OCV inside the chemistry's bounds.
+  const bool held = r.held_out_rows > 0;
+  const double judged = held ? r.held_out_rmse_V : err.all.rmse_V;
+  const bool passed = judged <= fit::kQualityMaxRmseV && r.ocv_physical;
+  battery::CellFitQuality q;
+  q.resimulation_rmse_V = err.all.rmse_V;
+  if (held) q.held_out_rmse_V = r.held_out_rmse_V;
+  q.threshold_V = fit::kQualityMaxRmseV;
+  q.passed = passed;
+  r.cell.fit_quality = q;
+  if (!passed)
+    r.warnings.push_back(std::string("quality gate failed: ") + (held ? "held-out" : "re-simulation") + " voltage RMSE " +
+                         format_fixed(1000.0 * judged, 1) + " mV (limit " + format_fixed(1000.0 * fit::kQualityMaxRmseV, 0) +
+                         " mV)" + (r.ocv_physical ? "" : ", OCV outside the chemistry's bounds") +
+                         (o.accept_poor_fit ? "; model written because --accept-poor-fit was given"
+                                            : "; no model written (exit 4): pass --accept-poor-fit to write it anyway"));
+  model = io::cell_to_json(r.cell, r.note);
+  (void)reload(model, o.out_file);
+  const bool write_model = passed || o.accept_poor_fit;
 
   // Everything is computed before anything is written.
   const std::string model_text = model.dump(2) + "\n";
   const std::string text = report::fit_cell_text(log, r, err, o.out_file);
   const std::string json = o.json_file.empty() ? "" : report::fit_cell_json(log, r, err, o.out_file).dump(2) + "\n";
-  const std::string trace = o.trace_file.empty() ? "" : report::fit_cell_trace_csv(log, r, rep.v_terminal_V);
-  const std::string page = o.html_file.empty() ? "" : report::fit_cell_html(log, r, err, rep.v_terminal_V, o.out_file);
-  io::write_output(o.out_file, model_text);
+  const std::string trace = o.trace_file.empty() ? "" : report::fit_cell_trace_csv(log, r, v_model);
+  const std::string page = o.html_file.empty() ? "" : report::fit_cell_html(log, r, err, v_model, o.out_file);
+  if (write_model) io::write_output(o.out_file, model_text);
   if (!o.report_file.empty()) io::write_output(o.report_file, printable(text, true));
   if (!o.json_file.empty()) io::write_output(o.json_file, json);
   if (!o.trace_file.empty()) io::write_output(o.trace_file, trace);
   if (!o.html_file.empty()) io::write_output(o.html_file, page);
   if (!o.quiet && o.json_file != "-" && o.out_file != "-" && o.report_file != "-" && o.html_file != "-") io::write_output("-", printable(text, true));
-  return 0;
+  return write_model ? 0 : kExitPoorFit;
 }
 
 void add_fit_cell(CLI::App& fit, int& exit_code) {
   auto o = std::make_shared<FitCellOptions>();
   CLI::App* c = fit.add_subcommand("cell", "Fit a cell model (OCV, R0, RC pairs) to a pulse or discharge test log");
-  c->add_option("LOG", o->log_file, "test log: CSV (or ; or tab separated) with time, current and voltage")
+  c->add_option("LOG", o->log_files,
+                "test logs of one cell: CSV (or ; or tab separated) with time, current and voltage; several are fitted into one model")
       ->required()
       ->check(CLI::ExistingFile);
   c->add_option("--out", o->out_file, "write the cell model (JSON) to FILE")->required()->check(output_path());
@@ -147,6 +202,8 @@ void add_fit_cell(CLI::App& fit, int& exit_code) {
   c->add_option("--json", o->json_file, "write the fit report as JSON to FILE, or - for standard output")->check(output_path());
   c->add_option("--trace", o->trace_file, "write measured and model voltage per log row (CSV) to FILE")->check(output_path());
   c->add_option("--html", o->html_file, "write the fit report as one self-contained HTML page (plots inline) to FILE")->check(output_path());
+  c->add_flag("--accept-poor-fit", o->accept_poor_fit,
+              "write the model even when the fit fails its quality gate (held-out RMSE above 20 mV or an OCV outside the chemistry)");
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
   c->callback([o, &exit_code] { exit_code = run_fit_cell(*o); });
 }

@@ -4,9 +4,11 @@
 #include <cmath>
 #include <filesystem>
 #include <limits>
+#include <numeric>
 
 #include "core/error.hpp"
 #include "core/text.hpp"
+#include "fit/chemistry.hpp"
 #include "fit/ocv.hpp"
 #include "fit/rc_fit.hpp"
 
@@ -109,13 +111,50 @@ std::vector<char> rows_to_count(const CellLog& log, const SocEstimate& se) {
     }
     k = e + 1;
   }
+  // Long-rest tails: rows of a rest later than kRestTailS after its load, except the last
+  // kRestEndS of it (the OCV there), are not counted — a cell relaxing for an hour shows slow
+  // diffusion and hysteresis that two RC pairs fitted to it would carry into every load.
+  for (std::size_t r = 0; r < n;) {
+    if (std::fabs(log.current_A[r]) > se.i_rest_A) {
+      ++r;
+      continue;
+    }
+    std::size_t e = r;
+    while (e + 1 < n && !log.starts_section(e + 1) && std::fabs(log.current_A[e + 1]) <= se.i_rest_A) ++e;
+    const double t0 = r > 0 && !log.starts_section(r) ? log.time_s[r - 1] : log.time_s[r];
+    for (std::size_t q = r; q <= e; ++q)
+      if (log.time_s[q] - t0 > kRestTailS && log.time_s[e] - log.time_s[q] > kRestEndS) use[q] = 0;
+    r = e + 1;
+  }
   return use;
+}
+
+/// Blocks of a log for the held-out check: the rows between two long rests (at least
+/// `rest_min_s`) form one block; the long rests themselves belong to none (-1), so that every
+/// fold keeps the rest ends that fix the OCV.
+std::vector<int> log_blocks(const CellLog& log, const std::vector<Rest>& rests, double rest_min_s, int& count) {
+  std::vector<int> b(log.size(), 0);
+  int block = 0;
+  std::size_t k = 0;
+  bool in_block = false;
+  for (const Rest& r : rests) {
+    if (r.duration_s < rest_min_s) continue;
+    for (; k < r.first; ++k) b[k] = block, in_block = true;
+    for (; k <= r.last; ++k) b[k] = -1;
+    if (in_block) ++block, in_block = false;
+  }
+  for (; k < log.size(); ++k) b[k] = block, in_block = true;
+  count = block + (in_block ? 1 : 0);
+  return b;
 }
 
 }  // namespace
 
-CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
+namespace {
+
+CellFitResult fit_impl(const CellLog& log, const CellFitOptions& opts, const SocEstimate* given) {
   CellFitResult out;
+  out.files = {log.file};
   const std::size_t n = log.size();
   out.rows = n;
   out.sections = log.section_starts.size();
@@ -168,10 +207,14 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
   }
 
   // --- 1. SoC ---
-  out.soc_estimate = estimate_soc(log, opts.soc);
+  SocOptions so = opts.soc;
+  if (so.chemistry.empty()) so.chemistry = opts.chemistry;
+  out.soc_estimate = given ? *given : estimate_soc(log, so);
   const SocEstimate& se = out.soc_estimate;
   out.soc = se.soc;
   for (const auto& w : se.warnings) out.warnings.push_back(w);
+  for (const auto& w : se.notes) out.notes.push_back(w);
+  if (se.chemistry) out.notes.push_back("chemistry " + se.chemistry->name + ", " + se.chemistry->how);
   const std::vector<double>& soc = out.soc;
   const double Q = se.capacity_Ah;
   const std::vector<char> use = rows_to_count(log, se);
@@ -259,8 +302,8 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
   };
   // A problem with the OCV free on the grid (or held at first_ocv), time constants shared across
   // knots unless `tau_tables`.
-  auto problem = [&](const std::vector<double>& k, bool tau_tables, bool free_ocv) {
-    RcProblem p(log, soc, first_ocv.ocv, k, nrc, use);
+  auto problem = [&](const std::vector<double>& k, bool tau_tables, bool free_ocv, const std::vector<char>* mask = nullptr) {
+    RcProblem p(log, soc, first_ocv.ocv, k, nrc, mask ? *mask : use);
     if (!tau_tables)
       for (int q = 0; q < nrc; ++q) p.set_shared(2 + 2 * q, true);
     if (free_ocv) p.free_ocv(grid, 0.0);
@@ -269,8 +312,9 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
   // One Levenberg–Marquardt run. Penalty weights from the data's own information: ρ² = 10⁻³ of
   // the largest diagonal of JᵀJ (knots) and 10⁻³ of the largest OCV diagonal (the OCV's second
   // difference), so they only decide what the data leave open.
-  auto solve = [&](const RcSolution& start, const RcBounds& b, bool tau_tables, bool free_ocv) {
-    RcProblem p = problem(start.t.knots, tau_tables, free_ocv);
+  auto solve = [&](const RcSolution& start, const RcBounds& b, bool tau_tables, bool free_ocv,
+                   const std::vector<char>* mask = nullptr) {
+    RcProblem p = problem(start.t.knots, tau_tables, free_ocv, mask);
     const std::array<double, 2> info = p.information_scale(start);
     if (start.t.knots.size() > 1) p.set_smoothing(std::sqrt(1e-3 * std::max(1e-30, info[0])));
     if (free_ocv) p.free_ocv(grid, std::sqrt(1e-3 * std::max(1e-30, info[1])));
@@ -425,6 +469,32 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
   out.tau_tables = out.tables && tau_tables;
   out.fit_rmse_V = std::sqrt(2.0 * (out.tables ? tables.cost : constants.cost) /
                              std::max<double>(1.0, static_cast<double>(std::count(use.begin(), use.end(), 1))));
+  // --- held-out check: two folds over the blocks between long rests; each fold refits the
+  // final structure without the other's load rows and predicts them (rests kept in both) ---
+  {
+    int nblocks = 0;
+    const std::vector<int> block = log_blocks(log, rests, opts.rest_min_s, nblocks);
+    out.held_out_blocks = static_cast<std::size_t>(nblocks);
+    if (nblocks >= 2) {
+      double cost = 0.0;
+      std::size_t rows_h = 0;
+      for (int f = 0; f < 2; ++f) {
+        std::vector<char> train = use, held(n, 0);
+        for (std::size_t k = 0; k < n; ++k)
+          if (use[k] && block[k] >= 0 && block[k] % 2 == f) train[k] = 0, held[k] = 1;
+        const Fit tf = solve(out.tables ? tables.s : constants.s, out.tables ? tb : bounds, out.tables && tau_tables, true, &train);
+        RcProblem ph = problem(tf.s.t.knots, out.tables && tau_tables, true, &held);
+        cost += ph.data_cost(tf.s);
+        rows_h += ph.rows_used();
+      }
+      out.held_out_rows = rows_h;
+      out.held_out_rmse_V = rows_h ? std::sqrt(2.0 * cost / static_cast<double>(rows_h)) : 0.0;
+    } else {
+      out.warnings.push_back("the log has fewer than two blocks between rests of " + format_fixed(opts.rest_min_s, 0) +
+                             " s: no held-out check; the quality gate judges the re-simulation alone");
+    }
+  }
+
   // SoC ranges without current steps: the tables hold the nearest band's values there.
   if (out.tables) {
     std::vector<double> edges = {0.0};
@@ -454,15 +524,32 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
         break;
       }
 
-  // --- OCV: the fitted grid where the data reach, extended linearly beyond ---
-  if (s_lo > 0.05)
-    out.warnings.push_back("the log reaches down to SoC " + format_fixed(s_lo, 3) + " only: the OCV below is extrapolated");
-  if (s_hi < 0.95)
-    out.warnings.push_back("the log reaches up to SoC " + format_fixed(s_hi, 3) + " only: the OCV above is extrapolated");
+  // --- OCV: the fitted grid over the SoC the counted rows cover, and at most kOcvMarginSoc
+  // beyond (the second-difference penalty extends the fitted curve linearly there) ---
+  const double cov_lo = std::max(0.0, s_lo), cov_hi = std::min(1.0, s_hi);
+  const double ocv_lo = std::max(0.0, cov_lo - kOcvMarginSoc), ocv_hi = std::min(1.0, cov_hi + kOcvMarginSoc);
+  if (ocv_lo > 1e-9)
+    out.warnings.push_back("the log reaches down to SoC " + format_fixed(s_lo, 3) + " only: the OCV table stops at SoC " +
+                           format_fixed(ocv_lo, 3) + " (" + format_fixed(100 * kOcvMarginSoc, 0) +
+                           " % below the data); a run below it is outside the model's coverage");
+  if (ocv_hi < 1.0 - 1e-9)
+    out.warnings.push_back("the log reaches up to SoC " + format_fixed(s_hi, 3) + " only: the OCV table stops at SoC " +
+                           format_fixed(ocv_hi, 3) + "; a run above it is outside the model's coverage");
   std::vector<double> g01, v01;
   for (std::size_t o = 0; o < grid.size(); ++o)
-    if (grid[o] >= -1e-9 && grid[o] <= 1.0 + 1e-9) g01.push_back(std::clamp(grid[o], 0.0, 1.0)), v01.push_back(final_s.ocv_V[o]);
+    if (grid[o] >= ocv_lo - 1e-9 && grid[o] <= ocv_hi + 1e-9)
+      g01.push_back(std::clamp(grid[o], ocv_lo, ocv_hi)), v01.push_back(final_s.ocv_V[o]);
   const Table ocv = ocv_table_from_grid(g01, v01, 0.0005, out.warnings);
+  if (se.chemistry) {
+    const Chemistry& ch = *se.chemistry;
+    if (ocv.y().front() < ch.ocv_min_V - 1e-9 || ocv.y().back() > ch.ocv_max_V + 1e-9) {
+      out.ocv_physical = false;
+      out.warnings.push_back("the fitted OCV runs from " + format_fixed(ocv.y().front(), 3) + " to " +
+                             format_fixed(ocv.y().back(), 3) + " V, outside what a " + ch.name + " cell can show (" +
+                             format_fixed(ch.ocv_min_V, 2) + " to " + format_fixed(ch.ocv_max_V, 2) +
+                             " V): the SoC scale or the chemistry is wrong; the fit fails its quality gate");
+    }
+  }
 
   // --- the model ---
   battery::Cell& c = out.cell;
@@ -479,20 +566,35 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
     rc.tau_s = tau_table ? final_t.tau_table(p) : Table(final_t.tau_s[p][0]);
     c.rc.push_back(rc);
   }
-  double vmax_seen = 0.0, vmin_seen = 1e300, idis_max = 0.0;
+  double idis_max = 0.0, ichg_max = 0.0;
   for (std::size_t k = 0; k < n; ++k) {
-    vmax_seen = std::max(vmax_seen, log.voltage_V[k]);
-    vmin_seen = std::min(vmin_seen, log.voltage_V[k]);
     idis_max = std::max(idis_max, log.current_A[k]);
+    ichg_max = std::min(ichg_max, log.current_A[k]);
   }
-  const double v_full = se.v_full_V > 0 && se.v_full_V < 1e299 ? se.v_full_V : vmax_seen;
-  const double v_empty = se.v_empty_V < 1e299 ? se.v_empty_V : vmin_seen;
-  c.v_max_V = opts.soc.v_max_V.value_or(std::round(std::max(v_full, ocv.y().back()) * 100.0) / 100.0);
-  c.v_cutoff_V = opts.soc.v_cutoff_V.value_or(std::floor(v_empty * 100.0 + 1e-6) / 100.0);
+  // Full-charge and cutoff voltages: given, the CV level or the chemistry's (fit/soc); never a
+  // pulse's peak or the lowest voltage seen.
+  if (!(se.v_full_V > 0.0))
+    throw InputError(log.file + ": the full-charge voltage is not known (got no charge that tapered at a constant voltage and "
+                                "no chemistry, expected --v-max-V or --chemistry)");
+  if (!(se.v_empty_V > 0.0))
+    throw InputError(log.file + ": the cutoff voltage is not known (got no chemistry, expected --v-cutoff-V or --chemistry)");
+  c.v_max_V = std::round(se.v_full_V * 1000.0) / 1000.0;
+  c.v_cutoff_V = std::round(se.v_empty_V * 1000.0) / 1000.0;
+  out.notes.push_back("v_max_V " + format_fixed(c.v_max_V, 3) + " V: " + se.v_full_source + "; v_cutoff_V " +
+                      format_fixed(c.v_cutoff_V, 3) + " V: " + se.v_empty_source);
   if (!(c.v_cutoff_V < c.v_max_V))
     throw InputError(log.file + ": the cutoff voltage is not below the maximum voltage (got " + format_fixed(c.v_cutoff_V, 3) +
                      " V and " + format_fixed(c.v_max_V, 3) +
                      " V, expected a log that spans a discharge; give --v-max-V and --v-cutoff-V)");
+  // What the data covered (cell JSON "coverage").
+  battery::CellCoverage cov;
+  cov.soc_min = cov_lo;
+  cov.soc_max = cov_hi;
+  cov.current_max_A = idis_max;
+  cov.current_min_A = ichg_max;
+  if (out.has_temperature) cov.temperature_min_C = out.temperature_min_C, cov.temperature_max_C = out.temperature_max_C;
+  cov.source = "fit cell " + std::filesystem::path(log.file).filename().string();
+  c.coverage = cov;
   // How far the model may be trusted in current: a linear circuit fitted up to one rate held
   // twice that rate to 10 mV on an open dataset of a pouch cell, and missed three times it by
   // 30–38 mV as the cell's polarisation grew faster than the current near empty (README, "Fit
@@ -546,6 +648,104 @@ CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) {
              (out.thermal ? "; thermal block from the logged temperature" : "") +
              (opts.mass_kg ? "" : "; mass_kg is a placeholder") + ". An estimate from measurements, not a rating.";
   return out;
+}
+
+}  // namespace
+
+CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) { return fit_impl(log, opts, nullptr); }
+
+CellFitResult fit_cell(const std::vector<CellLog>& logs, const CellFitOptions& opts) {
+  if (logs.empty()) throw InputError("fit cell: no log given (expected at least one)");
+  if (logs.size() == 1) return fit_impl(logs.front(), opts, nullptr);
+  SocOptions so = opts.soc;
+  if (so.chemistry.empty()) so.chemistry = opts.chemistry;
+  // The capacity: measured by the logs that hold a full-to-empty pair (their mean), else given.
+  std::vector<double> caps;
+  for (std::size_t i = 0; i < logs.size(); ++i) {
+    SocOptions o = so;
+    if (i > 0) o.soc0.reset();  // --soc0 is the first log's
+    o.capacity_Ah.reset();
+    try {
+      const SocEstimate e = estimate_soc(logs[i], o);
+      if (e.capacity_from_log) caps.push_back(e.capacity_Ah);
+    } catch (const InputError&) {
+      // This log cannot measure the capacity alone; the second pass says why if it cannot be fitted at all.
+    }
+  }
+  double q = 0.0;
+  if (!caps.empty()) {
+    for (double c : caps) q += c;
+    q /= static_cast<double>(caps.size());
+  } else if (so.capacity_Ah) {
+    q = *so.capacity_Ah;
+  } else {
+    throw InputError(logs.front().file + ": none of the " + std::to_string(logs.size()) +
+                     " logs covers a full discharge or charge, so the capacity cannot be measured (expected --capacity-Ah)");
+  }
+  // One log of sections: each input log starts a section (an unknown gap, cell relaxed), its SoC
+  // counted from its own known points with the common capacity.
+  CellLog m;
+  SocEstimate se;
+  m.section_starts.clear();
+  std::vector<std::size_t> starts;
+  std::string names;
+  const bool any_temp = std::any_of(logs.begin(), logs.end(), [](const CellLog& l) { return !l.temperature_C.empty(); });
+  const bool any_mode = std::any_of(logs.begin(), logs.end(), [](const CellLog& l) { return !l.mode.empty(); });
+  double t_end = 0.0;
+  for (std::size_t i = 0; i < logs.size(); ++i) {
+    const CellLog& l = logs[i];
+    SocOptions o = so;
+    if (i > 0) o.soc0.reset();
+    o.capacity_Ah = q;
+    SocEstimate e = estimate_soc(l, o);
+    const std::size_t base = m.size();
+    starts.push_back(base);
+    const double shift = i == 0 ? 0.0 : t_end + 3600.0 - l.time_s.front();
+    for (std::size_t k = 0; k < l.size(); ++k) {
+      m.time_s.push_back(l.time_s[k] + shift);
+      m.current_A.push_back(l.current_A[k]);
+      m.voltage_V.push_back(l.voltage_V[k]);
+      if (any_temp) m.temperature_C.push_back(l.temperature_C.empty() ? std::numeric_limits<double>::quiet_NaN() : l.temperature_C[k]);
+      if (any_mode) m.mode.push_back(l.mode.empty() ? std::string() : l.mode[k]);
+      m.line.push_back(l.line.empty() ? k + 2 : l.line[k]);
+    }
+    t_end = m.time_s.back();
+    for (std::size_t st : l.section_starts) m.section_starts.push_back(base + st);
+    for (const auto& nline : l.notes) m.notes.push_back(std::filesystem::path(l.file).filename().string() + ": " + nline);
+    for (const auto& w : l.warnings) m.warnings.push_back(std::filesystem::path(l.file).filename().string() + ": " + w);
+    names += (i ? " " : "") + std::filesystem::path(l.file).filename().string();
+    // Merge the SoC estimates.
+    const double q0 = se.charge_Ah.empty() ? 0.0 : se.charge_Ah.back();
+    for (double c : e.charge_Ah) se.charge_Ah.push_back(q0 + c);
+    se.soc.insert(se.soc.end(), e.soc.begin(), e.soc.end());
+    for (SocAnchor a : e.anchors) {
+      a.row += base;
+      a.how = std::filesystem::path(l.file).filename().string() + ": " + a.how;
+      se.anchors.push_back(a);
+    }
+    for (const auto& w : e.warnings) se.warnings.push_back(std::filesystem::path(l.file).filename().string() + ": " + w);
+    if (i == 0) {
+      se.v_full_V = e.v_full_V, se.v_full_source = e.v_full_source;
+      se.v_empty_V = e.v_empty_V, se.v_empty_source = e.v_empty_source;
+      se.chemistry = e.chemistry, se.notes = e.notes;
+      se.i_rest_A = e.i_rest_A;
+    } else {
+      if (!(se.v_full_V > 0.0) && e.v_full_V > 0.0) se.v_full_V = e.v_full_V, se.v_full_source = e.v_full_source;
+      if (!se.chemistry && e.chemistry) se.chemistry = e.chemistry;
+      se.i_rest_A = std::max(se.i_rest_A, e.i_rest_A);
+    }
+  }
+  m.file = names;
+  se.capacity_Ah = q;
+  se.capacity_from_log = !caps.empty();
+  se.capacity_source = caps.empty() ? std::string("given (--capacity-Ah)")
+                                    : "from the logs: the mean of " + std::to_string(caps.size()) + " measured";
+  CellFitResult r = fit_impl(m, opts, &se);
+  r.log_starts = starts;
+  r.files.clear();
+  for (const CellLog& l : logs) r.files.push_back(l.file);
+  if (r.cell.coverage) r.cell.coverage->source = "fit cell " + names;
+  return r;
 }
 
 }  // namespace sortie::fit

@@ -26,6 +26,17 @@
 
 namespace sortie::fit {
 
+/// How far beyond the SoC its log covers the fitted OCV table reaches (the fitted curve's end
+/// slope carried on): 2 % of SoC. Beyond that the model has no OCV of its own.
+inline constexpr double kOcvMarginSoc = 0.02;
+/// Rows of a rest later than this after its load are not counted (except its last kRestEndS).
+inline constexpr double kRestTailS = 600.0;
+inline constexpr double kRestEndS = 60.0;
+/// The quality gate: a fit whose held-out voltage RMSE (else its re-simulation RMSE) is above
+/// this, or whose OCV leaves the chemistry's bounds, fails (`fit cell` exit code 4; the model is
+/// written only with --accept-poor-fit).
+inline constexpr double kQualityMaxRmseV = 0.020;
+
 struct CellFitOptions {
   int rc_pairs = 2;            ///< 1 or 2
   SocOptions soc;              ///< capacity, soc0, v_max, v_cutoff
@@ -77,7 +88,13 @@ struct CellFitResult {
   std::vector<BandFit> bands;
   int iterations = 0;         ///< Levenberg–Marquardt steps in all
   LmStatus status = LmStatus::converged;
-  double fit_rmse_V = 0.0;    ///< of the fit's own recurrence over the rows used
+  bool ocv_physical = true;   ///< the OCV stays inside the chemistry's bounds
+  double fit_rmse_V = 0.0;
+  std::size_t held_out_blocks = 0;  ///< blocks between long rests (two folds when >= 2)
+  std::size_t held_out_rows = 0;
+  double held_out_rmse_V = 0.0;     ///< predicted on rows the fold's parameters never saw
+  std::vector<std::size_t> log_starts{0};  ///< first row of each input log (several logs)
+  std::vector<std::string> files;          ///< the input logs    ///< of the fit's own recurrence over the rows used
   std::optional<ThermalFit> thermal;  ///< with a temperature column that moves enough
   std::vector<std::string> notes;
   std::vector<std::string> warnings;
@@ -86,5 +103,10 @@ struct CellFitResult {
 /// Throws InputError for a log that cannot give a model (all-zero current, a current that never
 /// changes, no known SoC point, no OCV information), naming the file and what is missing.
 CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts);
+
+/// Several logs of one cell into one model: each log a section of its own (an unknown gap, the
+/// cell relaxed), its SoC counted from its own known points (--soc0 is the first log's) with one
+/// capacity — the mean of those the logs measure, else --capacity-Ah.
+CellFitResult fit_cell(const std::vector<CellLog>& logs, const CellFitOptions& opts);
 
 }  // namespace sortie::fit

@@ -65,6 +65,9 @@ Table ocv_table_from_grid(const std::vector<double>& grid, std::vector<double> v
     const double tenth = std::round(grid[i] * 10.0) / 10.0;
     if (std::fabs(grid[i] - tenth) < 1e-9) keep[i] = 1;
   }
+  // A grid over part of 0..1 holds fewer tenths: ten equal steps over it instead.
+  if (std::count(keep.begin(), keep.end(), 1) < 11)
+    for (std::size_t j = 0; j <= 10; ++j) keep[std::min(n - 1, (j * (n - 1) + 5) / 10)] = 1;
   // Douglas–Peucker between kept points (D. Douglas, T. Peucker, Cartographica 10, 1973).
   std::vector<std::pair<std::size_t, std::size_t>> todo;
   std::size_t a = 0;

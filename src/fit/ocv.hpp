@@ -48,7 +48,8 @@ OcvTable build_ocv(std::vector<OcvPoint> rest, const std::vector<OcvPoint>& load
 /// An OCV table from values on a fine grid: made strictly rising (pool-adjacent-violators, then
 /// at least 0.1 mV per point; a warning when that moved a value by more than 5 mV), then thinned
 /// to the points needed to stay within `tolerance_V` of the fine curve (Douglas–Peucker), always
-/// keeping SoC 0, 1 and every multiple of 0.1 (so at least 11 points).
+/// keeping the ends and every multiple of 0.1 SoC (ten equal steps when that makes fewer than 11
+/// points).
 Table ocv_table_from_grid(const std::vector<double>& grid, std::vector<double> values,
                           double tolerance_V, std::vector<std::string>& warnings);
 

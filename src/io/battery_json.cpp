@@ -99,6 +99,16 @@ battery::Cell read_cell(ObjectReader& r) {
     c.thermal = th;
   }
   if (r.has("coverage")) c.coverage = read_coverage(r.object("coverage"));
+  if (r.has("fit_quality")) {
+    ObjectReader v = r.object("fit_quality");
+    battery::CellFitQuality q;
+    q.resimulation_rmse_V = v.number("resimulation_rmse_V", between(0.0, 10.0, "V"));
+    if (v.has("held_out_rmse_V")) q.held_out_rmse_V = v.number("held_out_rmse_V", between(0.0, 10.0, "V"));
+    q.threshold_V = v.number("threshold_V", between(0.0, 10.0, "V"));
+    q.passed = v.boolean_or("passed", false);
+    v.finish();
+    c.fit_quality = q;
+  }
   r.finish();
   return c;
 }

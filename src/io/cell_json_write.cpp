@@ -1,5 +1,6 @@
 #include "io/cell_json_write.hpp"
 
+#include <algorithm>
 #include <cmath>
 
 namespace sortie::io {
@@ -84,6 +85,28 @@ nlohmann::ordered_json cell_to_json(const battery::Cell& c, const std::string& n
     j["temperature"] = t;
   }
   if (c.thermal) j["thermal"] = {{"c_J_per_kgK", c.thermal->c_J_per_kgK}, {"hA_W_per_K", c.thermal->hA_W_per_K}};
+  if (c.coverage) {
+    const battery::CellCoverage& v = *c.coverage;
+    nlohmann::ordered_json o;
+    // SoC rounded inwards, so the range written never claims more than the data.
+    o["soc_min"] = std::min(1.0, std::ceil(v.soc_min * 1e4 - 1e-6) / 1e4);
+    o["soc_max"] = std::max(0.0, std::floor(v.soc_max * 1e4 + 1e-6) / 1e4);
+    if (v.current_max_A) o["current_max_A"] = significant(*v.current_max_A, 5);
+    if (v.current_min_A) o["current_min_A"] = significant(*v.current_min_A, 5);
+    if (v.temperature_min_C) o["temperature_min_C"] = round_to(*v.temperature_min_C, 2);
+    if (v.temperature_max_C) o["temperature_max_C"] = round_to(*v.temperature_max_C, 2);
+    o["source"] = v.source;
+    j["coverage"] = o;
+  }
+  if (c.fit_quality) {
+    const battery::CellFitQuality& q = *c.fit_quality;
+    nlohmann::ordered_json o;
+    o["resimulation_rmse_V"] = significant(q.resimulation_rmse_V, 4);
+    if (q.held_out_rmse_V) o["held_out_rmse_V"] = significant(*q.held_out_rmse_V, 4);
+    o["threshold_V"] = q.threshold_V;
+    o["passed"] = q.passed;
+    j["fit_quality"] = o;
+  }
   return j;
 }
 

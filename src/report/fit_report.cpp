@@ -13,8 +13,8 @@ std::string mohm(double ohm) { return fixed(1000.0 * ohm, ohm < 0.01 ? 3 : 2); }
 
 const char* anchor_words(fit::SocAnchor::Kind k) {
   switch (k) {
-    case fit::SocAnchor::Kind::full: return "full (end of a charge at the maximum voltage)";
-    case fit::SocAnchor::Kind::empty: return "empty (end of a discharge at the cutoff)";
+    case fit::SocAnchor::Kind::full: return "full";
+    case fit::SocAnchor::Kind::empty: return "empty";
     case fit::SocAnchor::Kind::given: return "given (--soc0)";
   }
   return "";
@@ -51,7 +51,8 @@ std::string fit_cell_text(const fit::CellLog& log, const fit::CellFitResult& r,
   if (r.has_temperature)
     kv.add("cell temperature", fixed(r.temperature_mean_C, 1) + " °C mean (" + fixed(r.temperature_min_C, 1) +
                                    " to " + fixed(r.temperature_max_C, 1) + " °C)");
-  for (const auto& a : se.anchors) kv.add("known SoC point", std::string(anchor_words(a.kind)) + ", " + where(log, r, a.row));
+  for (const auto& a : se.anchors)
+    kv.add("known SoC point", std::string(anchor_words(a.kind)) + (a.how.empty() ? "" : ": " + a.how) + ", " + where(log, r, a.row));
   kv.add("capacity", fixed(se.capacity_Ah, 3) + " Ah, " + se.capacity_source);
   kv.add("OCV", "fitted with the RC pairs, from " + std::to_string(r.ocv_rest_points) + " rest ends and " +
                     std::to_string(r.ocv_loaded_points) + " low-rate rows to start; table of " +
@@ -70,6 +71,25 @@ std::string fit_cell_text(const fit::CellLog& log, const fit::CellFitResult& r,
                               " rows the fit counts (long charges and the rests after them are left out: the OCV "
                               "on charge lies higher, by hysteresis)");
   kv.add("mean error", fixed(1000.0 * e.all.mean_V, 1) + " mV (model minus measured)");
+  if (r.held_out_rows > 0)
+    kv.add("held-out RMSE", fixed(1000.0 * r.held_out_rmse_V, 1) + " mV over " + std::to_string(r.held_out_rows) +
+                                " rows predicted by fits that did not see them (two folds over " +
+                                std::to_string(r.held_out_blocks) + " blocks between long rests)");
+  if (r.cell.fit_quality)
+    kv.add("quality gate", std::string(r.cell.fit_quality->passed ? "passed" : "FAILED") + " (limit " +
+                               fixed(1000.0 * r.cell.fit_quality->threshold_V, 0) + " mV on the " +
+                               (r.held_out_rows > 0 ? "held-out" : "re-simulation") + " RMSE" +
+                               (r.ocv_physical ? "" : "; OCV outside the chemistry's bounds") + ")");
+  if (r.cell.coverage) {
+    const auto& c = *r.cell.coverage;
+    kv.add("covered", "SoC " + fixed(c.soc_min, 3) + " to " + fixed(c.soc_max, 3) +
+                          (c.current_min_A && c.current_max_A
+                               ? ", current " + fixed(*c.current_min_A, 2) + " to " + fixed(*c.current_max_A, 2) + " A"
+                               : std::string()) +
+                          (c.temperature_min_C ? ", " + fixed(*c.temperature_min_C, 1) + " to " + fixed(*c.temperature_max_C, 1) + " °C"
+                                               : std::string()) +
+                          " (written as \"coverage\"; outside it the model extrapolates)");
+  }
   if (r.thermal && r.cell.thermal) {
     const auto& t = *r.thermal;
     kv.add("thermal block", "heat capacity " + fixed(t.heat_capacity_J_per_K, 1) + " J/K (" +
@@ -136,11 +156,24 @@ nlohmann::ordered_json fit_cell_json(const fit::CellLog& log, const fit::CellFit
   const auto& se = r.soc_estimate;
   nlohmann::ordered_json anchors = nlohmann::ordered_json::array();
   for (const auto& a : se.anchors)
-    anchors.push_back({{"kind", anchor_key(a.kind)}, {"line", log.line[a.row]}, {"soc", a.soc}});
+    anchors.push_back({{"kind", anchor_key(a.kind)}, {"line", log.line[a.row]}, {"soc", a.soc}, {"how", a.how}});
   j["soc"] = {{"capacity_Ah", se.capacity_Ah},
               {"capacity_from_log", se.capacity_from_log},
               {"capacity_source", se.capacity_source},
-              {"known_points", anchors}};
+              {"known_points", anchors},
+              {"v_max_V", r.cell.v_max_V},
+              {"v_max_source", se.v_full_source},
+              {"v_cutoff_V", r.cell.v_cutoff_V},
+              {"v_cutoff_source", se.v_empty_source},
+              {"chemistry", se.chemistry ? nlohmann::ordered_json(se.chemistry->name) : nlohmann::ordered_json()}};
+  if (r.cell.coverage) {
+    const auto& c = *r.cell.coverage;
+    j["coverage"] = {{"soc_min", c.soc_min}, {"soc_max", c.soc_max}, {"current_max_A", c.current_max_A ? nlohmann::ordered_json(*c.current_max_A) : nlohmann::ordered_json()},
+                     {"current_min_A", c.current_min_A ? nlohmann::ordered_json(*c.current_min_A) : nlohmann::ordered_json()},
+                     {"source", c.source}};
+    if (c.temperature_min_C) j["coverage"]["temperature_min_C"] = *c.temperature_min_C;
+    if (c.temperature_max_C) j["coverage"]["temperature_max_C"] = *c.temperature_max_C;
+  }
   j["ocv"] = {{"rest_points", r.ocv_rest_points}, {"loaded_points", r.ocv_loaded_points}, {"table_points", r.cell.ocv_V.size()}};
   j["rc_pairs"] = r.n_rc;
   j["tables"] = r.tables;
@@ -159,6 +192,14 @@ nlohmann::ordered_json fit_cell_json(const fit::CellLog& log, const fit::CellFit
                     {"temperature_max_error_K", r.thermal->max_error_K}};
   j["voltage_max_error_line"] = e.all.rows ? log.line[e.all.max_row] : 0;
   j["voltage_mean_error_V"] = e.all.mean_V;
+  j["held_out_blocks"] = r.held_out_blocks;
+  j["held_out_rows"] = r.held_out_rows;
+  j["held_out_rmse_V"] = r.held_out_rows > 0 ? nlohmann::ordered_json(r.held_out_rmse_V) : nlohmann::ordered_json();
+  if (r.cell.fit_quality)
+    j["quality"] = {{"passed", r.cell.fit_quality->passed},
+                    {"threshold_V", r.cell.fit_quality->threshold_V},
+                    {"judged_on", r.held_out_rows > 0 ? "held_out" : "resimulation"},
+                    {"ocv_physical", r.ocv_physical}};
   j["counted_rows"] = e.counted.rows;
   j["counted_voltage_rmse_V"] = e.counted.rmse_V;
   j["counted_voltage_max_error_V"] = e.counted.max_abs_V;

@@ -62,7 +62,7 @@ TEST_CASE("fit cell: the bundled synthetic log gives a model that loads and runs
   const std::string model = work_path("fitted-demo.json"), report = work_path("fitted-demo.txt"),
                     js = work_path("fitted-demo-report.json"), trace = work_path("fitted-demo-trace.csv");
   const auto r = run_sortie({"fit", "cell", source_path(kDemoLogFile), "--out", model, "--mass-kg", "0.118",
-                             "--name", "demo LiPo fitted from the synthetic log (invented)", "--report", report,
+                             "--chemistry", "LiPo", "--name", "demo LiPo fitted from the synthetic log (invented)", "--report", report,
                              "--json", js, "--trace", trace});
   REQUIRE_MESSAGE(r.exit_code == 0, r.err);
   CHECK(r.out.find("voltage RMSE") != std::string::npos);
@@ -87,13 +87,38 @@ TEST_CASE("fit cell: the bundled synthetic log gives a model that loads and runs
   CHECK_MESSAGE(d.exit_code == 0, d.err);
 }
 
+TEST_CASE("fit cell: a fit that fails its quality gate exits 4 and writes no model unless accepted") {
+  // The demo LiPo log declared LFP: its fitted OCV (about 3.3 to 4.2 V) lies outside what an LFP
+  // cell can show (2.5 to 3.7 V, fit/chemistry), so the gate fails whatever the RMSE.
+  const std::string model = work_path("gate-model.json");
+  std::vector<std::string> args = {"fit", "cell", source_path(kDemoLogFile), "--out", model,
+                                   "--chemistry", "LFP", "--v-cutoff-V", "3.3"};
+  const auto r = run_sortie(args);
+  CHECK(r.exit_code == 4);
+  CHECK_FALSE(file_exists(model));
+  CHECK(r.out.find("quality gate     FAILED") != std::string::npos);
+  CHECK(r.out.find("outside what a LFP cell can show") != std::string::npos);
+  args.push_back("--accept-poor-fit");
+  const auto a = run_sortie(args);
+  CHECK_MESSAGE(a.exit_code == 0, a.err);
+  const json cell = json::parse(read_file(model));
+  CHECK(cell["fit_quality"]["passed"] == false);
+  // The demo log as a LiPo passes: held-out RMSE within the 20 mV limit.
+  const auto ok = run_sortie({"fit", "cell", source_path(kDemoLogFile), "--out", model, "--chemistry", "LiPo", "--quiet"});
+  CHECK(ok.exit_code == 0);
+  const json good = json::parse(read_file(model));
+  CHECK(good["fit_quality"]["passed"] == true);
+  CHECK(good["fit_quality"]["held_out_rmse_V"].get<double>() < 0.020);
+  CHECK(good["coverage"]["soc_max"].get<double>() == doctest::Approx(1.0).epsilon(0.001));  // rounded inwards
+}
+
 TEST_CASE("fit cell: a log with no rest is fitted with a warning saying so") {
   // Pulses of 4C for 10 s on a 0.5C discharge, never at rest, from full (given by --soc0).
   std::vector<double> i;
   for (int k = 0; k < 6000; ++k) i.push_back(k % 130 < 10 ? 20.0 : 2.5);
   const std::string log = replayed_log("no-rest.csv", i, 1.0);
   const std::string out = work_path("no-rest.json");
-  const auto r = run_sortie({"fit", "cell", log, "--out", out, "--soc0", "1", "--capacity-Ah", "5"});
+  const auto r = run_sortie({"fit", "cell", log, "--out", out, "--soc0", "1", "--capacity-Ah", "5", "--chemistry", "LiPo"});
   REQUIRE_MESSAGE(r.exit_code == 0, r.err);
   CHECK(r.out.find("no rest of 300 s or more") != std::string::npos);
   CHECK(io::load_cell_file(out).ocv_V.size() >= 11);
@@ -178,6 +203,7 @@ TEST_CASE("fit cell: a log with a temperature column gives a model with a therma
   p.thermal = true;
   p.air_C = 18.0;
   const sim::SyntheticLog s = sim::synthetic_pulse_test(truth, p, sim::MeasurementNoise{});
+  // Its 4C steps end at the cutoff with charge left (no empty point): --capacity-Ah 5 below.
   std::string csv = "Time (s),Current (A),Voltage (V),Temperature (degC)\n";
   char buf[96];
   for (std::size_t k = 0; k < s.time_s.size(); ++k) {
@@ -186,7 +212,7 @@ TEST_CASE("fit cell: a log with a temperature column gives a model with a therma
   }
   const std::string log = write_work_file("thermal-log.csv", csv);
   const std::string model = work_path("thermal-cell.json");
-  const auto r = run_sortie({"fit", "cell", log, "--out", model, "--mass-kg", "0.118", "--json", "-"});
+  const auto r = run_sortie({"fit", "cell", log, "--out", model, "--mass-kg", "0.118", "--chemistry", "LiPo", "--capacity-Ah", "5", "--json", "-"});
   REQUIRE_MESSAGE(r.exit_code == 0, r.err);
   const json j = json::parse(r.out);
   REQUIRE(j.contains("thermal"));
@@ -195,7 +221,7 @@ TEST_CASE("fit cell: a log with a temperature column gives a model with a therma
   const json cell = json::parse(read_file(model));
   REQUIRE(cell.contains("thermal"));
   CHECK(cell["thermal"]["c_J_per_kgK"] == j["thermal"]["c_J_per_kgK"]);
-  const auto text = run_sortie({"fit", "cell", log, "--out", work_path("thermal-cell-2.json"), "--mass-kg", "0.118"});
+  const auto text = run_sortie({"fit", "cell", log, "--out", work_path("thermal-cell-2.json"), "--mass-kg", "0.118", "--chemistry", "LiPo", "--capacity-Ah", "5"});
   CHECK(text.out.find("thermal block     heat capacity") != std::string::npos);
   // The fitted cell flies, and the pack warms in flight.
   const std::string pack =

@@ -166,7 +166,7 @@ TEST_CASE("discharge --html: voltage and charge — current and power") {
 
 TEST_CASE("fit cell --html: voltage — error — OCV and resistance plots — numbers equal to --json") {
   const Page p = page_of({"fit", "cell", source_path("models/logs/demo-hppc-synthetic.csv"), "--out",
-                          work_path("fit-cell-model.json")},
+                          work_path("fit-cell-model.json"), "--chemistry", "LiPo"},
                          "fit-cell");
   CHECK(p.exit_code == 0);
   CHECK(plot_ids(p.x) == promised(sortie::report::kFitCellPlots));

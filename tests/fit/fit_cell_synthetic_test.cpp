@@ -39,6 +39,14 @@ SocMap soc_map(const fit::CellFitResult& r, const sim::SyntheticLog& s) {
   return m;
 }
 
+/// The demo cell is a LiPo (its file says so): the fit takes its full and cutoff voltages from
+/// that (fit/chemistry).
+fit::CellFitOptions lipo_options() {
+  fit::CellFitOptions o;
+  o.chemistry = "LiPo";
+  return o;
+}
+
 }  // namespace
 
 TEST_SUITE("fit") {
@@ -50,7 +58,7 @@ TEST_CASE("fit cell: a synthetic pulse test gives back R0 within 2 % and each ta
     sim::MeasurementNoise noise;
     noise.seed = seed;
     const sim::SyntheticLog s = sim::synthetic_pulse_test(truth, sim::PulseTestProtocol{}, noise);
-    const fit::CellFitResult r = fit::fit_cell(sim::to_cell_log(s, "synthetic"), fit::CellFitOptions{});
+    const fit::CellFitResult r = fit::fit_cell(sim::to_cell_log(s, "synthetic"), lipo_options());
     const SocMap map = soc_map(r, s);
     REQUIRE(r.tables);
     REQUIRE(r.cell.rc.size() == 2);
@@ -105,7 +113,7 @@ TEST_CASE("fit cell: the written model re-simulated on the log's current matches
   MESSAGE("seed " << test::kDemoLogSeed);
   const sim::SyntheticLog s = sim::synthetic_pulse_test(truth, sim::PulseTestProtocol{}, test::demo_log_noise());
   const fit::CellLog log = sim::to_cell_log(s, "synthetic");
-  const fit::CellFitResult r = fit::fit_cell(log, fit::CellFitOptions{});
+  const fit::CellFitResult r = fit::fit_cell(log, lipo_options());
   battery::Pack pack;
   pack.cell = r.cell;
   pack.soc0 = r.soc.front();

@@ -142,7 +142,11 @@ TEST_CASE("fit cell: an exact pulse test gives back R0 and both RC pairs — and
   noise.current_step_A = 0.0;
   noise.seed = 1;
   const sim::SyntheticLog s = sim::synthetic_pulse_test(truth, sim::PulseTestProtocol{}, noise);
-  const fit::CellFitResult r = fit::fit_cell(sim::to_cell_log(s, "synthetic"), fit::CellFitOptions{});
+  // The demo cell is a LiPo (its file says so): the fit takes its full and cutoff voltages from
+  // the chemistry (fit/chemistry).
+  fit::CellFitOptions fo;
+  fo.chemistry = truth.chemistry;
+  const fit::CellFitResult r = fit::fit_cell(sim::to_cell_log(s, "synthetic"), fo);
   REQUIRE(r.cell.rc.size() == 2);
   REQUIRE(r.bands.size() >= 5);
   std::size_t full = 0, empty = 0;

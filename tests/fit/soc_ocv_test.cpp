@@ -58,8 +58,9 @@ TEST_CASE("soc: a CC-CV charge to full then a discharge to cutoff gives the capa
 
 TEST_CASE("soc: with one known point the capacity must be given") {
   const auto log = make_log({{1.0, 3600, 3.0}, {0.0, 600, 3.4}}, 4.1);  // only an empty point
-  CHECK_THROWS_WITH_AS(fit::estimate_soc(log, {}), doctest::Contains("expected --capacity-Ah"), InputError);
   fit::SocOptions o;
+  o.chemistry = "Li-ion";  // its usual end of discharge reaches 3.0 V (fit/chemistry)
+  CHECK_THROWS_WITH_AS(fit::estimate_soc(log, o), doctest::Contains("expected --capacity-Ah"), InputError);
   o.capacity_Ah = 4.0;
   const auto se = fit::estimate_soc(log, o);
   CHECK(se.soc.front() == doctest::Approx(0.25));  // 1 Ah above empty of 4 Ah

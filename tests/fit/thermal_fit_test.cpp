@@ -39,6 +39,9 @@ TEST_CASE("fit thermal: a synthetic log with a known thermal block gives its hea
     const sim::SyntheticLog s = sim::synthetic_pulse_test(truth, warm_protocol(18.0), noise);
     REQUIRE(s.temperature_C.size() == s.time_s.size());
     fit::CellFitOptions o;
+    o.chemistry = "LiPo";  // the demo cell's chemistry
+    // Its 4C steps end at the cutoff with charge left: not an empty point, so the capacity is given.
+    o.soc.capacity_Ah = truth.capacity_Ah;
     o.mass_kg = truth.mass_kg;
     const fit::CellFitResult r = fit::fit_cell(sim::to_cell_log(s, "synthetic"), o);
     REQUIRE(r.thermal);
@@ -71,6 +74,8 @@ TEST_CASE("fit thermal: a temperature that barely moves gives a warning and no t
   big.thermal->hA_W_per_K = 5.0;  // and is held near the air by a large cooling
   const sim::SyntheticLog s = sim::synthetic_pulse_test(big, p, sim::MeasurementNoise{});
   fit::CellFitOptions o;
+  o.chemistry = "LiPo";  // the demo cell's chemistry
+  o.soc.capacity_Ah = truth.capacity_Ah;
   o.mass_kg = truth.mass_kg;
   const fit::CellFitResult r = fit::fit_cell(sim::to_cell_log(s, "synthetic"), o);
   CHECK_FALSE(r.thermal);
