@@ -44,7 +44,9 @@ int run_fly(const FlyOptions& o) {
   sim::SpareOptions spare_opts;
   spare_opts.sim = so;
   const sim::SpareResult spare = sim::solve_spare(lp.mission, r, spare_opts);
-  const sim::TurnHome home = sim::solve_turn_home(lp.mission);
+  sim::TurnHomeOptions home_opts;
+  home_opts.sim = so;  // the same rules as the flight: --stop-at-coverage, --accept-extrapolation
+  const sim::TurnHome home = sim::solve_turn_home(lp.mission, home_opts);
   // Every output is made before the first is written.
   const std::string html = o.report.html_file.empty() ? "" : report::fly_html(lp.mission, r, spare, &home);
   if (!o.json_file.empty())

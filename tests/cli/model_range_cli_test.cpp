@@ -151,6 +151,12 @@ TEST_CASE("fly: a landing below the covered SoC fails the soc_covered rule unles
   CHECK(k["verdict"] == "go");
   CHECK(k["verdict_text"].get<std::string>().find("outside the model's data") != std::string::npos);
   CHECK(k["landing"]["reserve_time_s"].get<double>() > 0.0);
+  // The turn-home solve flies under the same rules as the flight: without the flag a return is
+  // held to the covered floor (and the time left counted down to it), so the latest turn comes
+  // earlier; with the flag it comes later or never.
+  REQUIRE(j["turn_home"]["point"].is_object());
+  CHECK((k["turn_home"]["point"].is_null() ||
+         k["turn_home"]["point"]["t_s"].get<double>() > j["turn_home"]["point"]["t_s"].get<double>()));
 }
 
 TEST_CASE("fly --stop-at-coverage: the flight ends at the covered floor as end kind coverage_floor") {
