@@ -271,7 +271,12 @@ CellFitResult fit_impl(const CellLog& log, const CellFitOptions& opts, const Soc
   const std::vector<double> grid = ocv_grid(s_lo, s_hi);
   // The first OCV: rest ends and low-rate rows with the step R0 only, the low-rate curve shifted
   // through the rest points (fit/ocv).
-  const OcvTable first_ocv = build_ocv(rest_pts, loaded_pts, grid);
+  const std::optional<OcvTable> built = build_ocv(rest_pts, loaded_pts, grid);
+  if (!built)
+    throw InputError(log.file + ": the rests and low-rate rows lie outside the SoC range of the rows the fit counts (got SoC " +
+                     format_fixed(s_lo, 3) + " to " + format_fixed(s_hi, 3) +
+                     ", expected open-circuit points within it): check the known SoC points and --soc0");
+  const OcvTable& first_ocv = *built;
 
   // --- 4. constants and the OCV, from several starting time constants ---
   const int nrc = opts.rc_pairs;

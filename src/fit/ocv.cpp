@@ -118,7 +118,7 @@ std::vector<Rest> find_rests(const CellLog& log, double i_rest_A) {
   return out;
 }
 
-OcvTable build_ocv(std::vector<OcvPoint> rest, const std::vector<OcvPoint>& loaded,
+std::optional<OcvTable> build_ocv(std::vector<OcvPoint> rest, const std::vector<OcvPoint>& loaded,
                    const std::vector<double>& grid) {
   assert(!grid.empty() && (!rest.empty() || !loaded.empty()));
   OcvTable out;
@@ -194,7 +194,7 @@ OcvTable build_ocv(std::vector<OcvPoint> rest, const std::vector<OcvPoint>& load
   std::size_t first = grid.size(), last = 0;
   for (std::size_t g = 0; g < grid.size(); ++g)
     if (val[g]) first = std::min(first, g), last = std::max(last, g);
-  assert(first <= last);
+  if (first > last) return std::nullopt;
   // Interior gaps (should not happen with rest interpolation): linear between neighbours.
   for (std::size_t g = first; g <= last; ++g)
     if (!val[g]) {

@@ -6,6 +6,7 @@
 /// between rests; it is shifted to pass through the rest points (the shift, interpolated
 /// linearly between rests, absorbs hysteresis and slow relaxation the model does not hold).
 #include <cstddef>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -41,8 +42,9 @@ struct OcvTable {
 
 /// The table on `grid` (SoC, increasing, from 0 to 1) from rest points and loaded points (either
 /// may be empty, not both). Outside the covered range the end slope is extended (with a warning
-/// when more than 5 % SoC is missing). Values are made strictly increasing.
-OcvTable build_ocv(std::vector<OcvPoint> rest, const std::vector<OcvPoint>& loaded,
+/// when more than 5 % SoC is missing). Values are made strictly increasing. None when no grid
+/// point lies within the data (the points sit outside the SoC range the grid spans).
+std::optional<OcvTable> build_ocv(std::vector<OcvPoint> rest, const std::vector<OcvPoint>& loaded,
                    const std::vector<double>& grid);
 
 /// An OCV table from values on a fine grid: made strictly rising (pool-adjacent-violators, then

@@ -86,7 +86,9 @@ TEST_CASE("ocv: rest points set the level and the loaded curve the shape between
   for (int i = 100; i <= 900; ++i) loaded.push_back({i / 1000.0, ocv(i / 1000.0) - 0.015});
   std::vector<double> grid;
   for (int i = 0; i <= 40; ++i) grid.push_back(i / 40.0);
-  const auto t = fit::build_ocv(rest, loaded, grid);
+  const auto built = fit::build_ocv(rest, loaded, grid);
+  REQUIRE(built);
+  const fit::OcvTable& t = *built;
   for (double s : {0.2, 0.35, 0.5, 0.65, 0.8}) CHECK(t.ocv(s) == doctest::Approx(ocv(s)).epsilon(0.002 / 3.9));
   CHECK(t.ocv.strictly_increasing_y());
   CHECK(t.rest_points == 2);
@@ -126,3 +128,13 @@ TEST_CASE("fit cell: a log that is all charge is refused rather than fitted to n
 }
 
 }  // TEST_SUITE
+
+TEST_CASE("ocv: open-circuit points outside the grid give no table (regression: an assertion found by fuzzing fit cell)") {
+  // The grid spans the SoC of the rows the fit counts; rests that all lie beyond it (a clock jump
+  // to 1e9 s made the counted rows a sliver of SoC) leave no grid point with data.
+  std::vector<fit::OcvPoint> rest = {{0.95, 4.1}, {0.97, 4.12}}, loaded;
+  const std::vector<double> grid = {0.0, 0.25, 0.5};
+  CHECK_FALSE(fit::build_ocv(rest, loaded, grid).has_value());
+  rest.push_back({0.3, 3.8});
+  CHECK(fit::build_ocv(rest, loaded, grid).has_value());
+}
