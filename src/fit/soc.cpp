@@ -194,11 +194,27 @@ SocEstimate estimate_soc(const CellLog& log, const SocOptions& opts) {
                              " %; the log's value is used");
   }
   if (!out.capacity_from_log) {
-    if (!opts.capacity_Ah)
+    if (!opts.capacity_Ah) {
+      std::size_t n_full = 0;
+      for (const auto& a : anchors) n_full += a.kind == SocAnchor::Kind::full ? 1 : 0;
+      const std::size_t n_empty = anchors.size() - n_full;
+      // Say which end is missing and why, so the user knows which option or test step is missing.
+      std::string why;
+      if (n_empty == 0 && out.v_empty_V <= 0.0)
+        why = "; no empty point can be found because the cutoff voltage is not known (give --chemistry or --v-cutoff-V)";
+      else if (n_empty == 0)
+        why = "; no discharge at " + format_fixed(kEmptyMaxC, 0) + " C or less ended within 20 mV of the cutoff " +
+              format_fixed(out.v_empty_V, 3) + " V, " + out.v_empty_source + "; the lowest discharge end was " +
+              (v_dis_min < 1e299 ? format_fixed(v_dis_min, 3) + " V at " + format_fixed(rate_at_min, 2) + " C"
+                                 : std::string("none: no discharge of a minute or more"));
+      else if (n_full == 0)
+        why = "; no full point was found before an empty one (a charge that tapered at the full voltage, or a long "
+              "rest at the start near it)";
       throw InputError(log.file + ": the log does not cover a full discharge or charge (got " +
-                       std::to_string(anchors.size()) +
-                       " known point(s) but no full-to-empty pair), so the capacity cannot be measured "
-                       "(expected --capacity-Ah)");
+                       std::to_string(n_full) + " full and " + std::to_string(n_empty) +
+                       " empty point(s) but no full-to-empty or empty-to-full pair" + why +
+                       "), so the capacity cannot be measured (expected --capacity-Ah)");
+    }
     out.capacity_Ah = *opts.capacity_Ah;
     out.capacity_source = "given (--capacity-Ah)";
   }

@@ -73,6 +73,10 @@ TEST_CASE("soc: a discharge that stops above the cutoff is no empty point and a 
   const auto se_fail = [&] { return fit::estimate_soc(log, o); };
   // One full point (the CV end) and no empty one: the capacity cannot be measured.
   CHECK_THROWS_WITH_AS(se_fail(), doctest::Contains("expected --capacity-Ah"), InputError);
+  // ... and says which end is missing and why: the 3.45 V end is above the 3.0 V cutoff.
+  CHECK_THROWS_WITH_AS(se_fail(), doctest::Contains("1 full and 0 empty point(s)"), InputError);
+  CHECK_THROWS_WITH_AS(se_fail(), doctest::Contains("within 20 mV of the cutoff 3.000 V"), InputError);
+  CHECK_THROWS_WITH_AS(se_fail(), doctest::Contains("the lowest discharge end was 3.450 V at"), InputError);
   o.capacity_Ah = 2.0;
   const auto se = fit::estimate_soc(log, o);
   REQUIRE(se.anchors.size() == 1);
@@ -84,6 +88,20 @@ TEST_CASE("soc: a discharge that stops above the cutoff is no empty point and a 
   // With the cutoff given at 3.45 V the end of that discharge is empty (0.25 C against 2 Ah).
   o.v_cutoff_V = 3.45;
   CHECK(fit::estimate_soc(log, o).anchors.size() == 2);
+}
+
+TEST_CASE("soc: without a chemistry or a cutoff the capacity refusal names the missing cutoff") {
+  // A CC-CV charge to 4.0 V (a level no known chemistry's full charge sits at, so no chemistry is
+  // taken from it) then a 0.5 A discharge: a full point, but no cutoff to find an empty one by.
+  const auto log = make_log({{-2.0, 3000, 4.0}, {-1.0, 300, 4.0}, {-0.2, 300, 4.0}, {0.0, 600, 3.95},
+                             {0.5, 10000, 3.2}, {0.0, 600, 3.4}},
+                            3.3);
+  fit::SocOptions o;
+  CHECK_THROWS_WITH_AS(fit::estimate_soc(log, o),
+                       doctest::Contains("the cutoff voltage is not known (give --chemistry or --v-cutoff-V)"),
+                       InputError);
+  o.v_cutoff_V = 3.2;  // with the cutoff the discharge's end is the empty point
+  CHECK(fit::estimate_soc(log, o).capacity_from_log);
 }
 
 TEST_CASE("soc: no known point is refused naming what was looked for and found") {
