@@ -41,7 +41,7 @@ std::string as_csv(const sim::SyntheticLog& s) {
   std::string out = "Time (s),Current (A),Voltage (V)\n";
   char buf[96];
   for (std::size_t k = 0; k < s.time_s.size(); ++k) {
-    std::snprintf(buf, sizeof buf, "%.1f,%.3f,%.3f\n", s.time_s[k], s.current_A[k], s.voltage_V[k]);
+    std::snprintf(buf, sizeof buf, "%.3f,%.3f,%.3f\n", s.time_s[k], s.current_A[k], s.voltage_V[k]);
     out += buf;
   }
   return out;
@@ -73,5 +73,41 @@ const bool reg_command = bench::add_case(
       bench::keep(fit::voltage_errors(log.voltage_V, rep.v_terminal_V, r.soc, {}).all.rmse_V);
     },
     5);
+
+/// The same ten-hour pulse test logged every 36 ms throughout: a million rows, the size of a
+/// high-rate cycler export.
+const sim::SyntheticLog& log_1M() {
+  static const sim::SyntheticLog log = [] {
+    const battery::Cell cell = io::load_cell_file(SORTIE_SOURCE_DIR "/models/cells/demo-lipo-5000.json");
+    sim::PulseTestProtocol p;
+    p.sample_s = p.pulse_sample_s = p.rest_sample_s = 0.036;
+    p.start_rest_s = 1200.0;
+    p.step_rest_s = 2000.0;
+    sim::MeasurementNoise noise;
+    noise.seed = 11;
+    return sim::synthetic_pulse_test(cell, p, noise);
+  }();
+  return log;
+}
+
+// `fit cell` apart from the disk on a million-row log (parse, fit, write, reload, re-simulate).
+const bool reg_command_1M = bench::add_case(
+    "fit_cell_command_1M_rows",
+    [] {
+      static const std::string csv = [] {
+        std::string text = as_csv(log_1M());
+        return text;
+      }();
+      const fit::CellLog log = io::read_cell_log(io::parse_delimited(csv, "bench.csv"), io::CellLogOptions{});
+      const fit::CellFitResult r = fit::fit_cell(log, lipo());
+      const nlohmann::json j = nlohmann::json::parse(io::cell_to_json(r.cell, r.note).dump());
+      io::ObjectReader reader(j, io::Source{"bench.json", {}}, "");
+      battery::Pack pack;
+      pack.cell = io::read_cell(reader);
+      pack.soc0 = r.soc.front();
+      const sim::ReplayResult rep = sim::replay(pack, {log.time_s, log.current_A, log.section_starts});
+      bench::keep(fit::voltage_errors(log.voltage_V, rep.v_terminal_V, r.soc, {}).all.rmse_V);
+    },
+    1);
 
 }  // namespace

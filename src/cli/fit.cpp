@@ -180,9 +180,9 @@ void add_fit_cell(CLI::App& fit, int& exit_code) {
   c->add_option("--rc", o->rc, "RC pairs to fit: 1 or 2 (default 2)")->check(CLI::IsMember({1, 2}));
   c->add_option("--soc0", o->soc0, "state of charge at the first row, 0..1 (when the log has no full or empty point)")
       ->check(number_in(between(0.0, 1.0, "")));
-  c->add_option("--v-max-V", o->v_max_V, "full-charge cell voltage, V (default: the highest charge voltage in the log)")
+  c->add_option("--v-max-V", o->v_max_V, "full-charge cell voltage, V (default: the constant-voltage level of the log's charges, else the chemistry's)")
       ->check(number_in(between(1.0, 6.0, "V")));
-  c->add_option("--v-cutoff-V", o->v_cutoff_V, "end-of-discharge cell voltage, V (default: the lowest discharge voltage)")
+  c->add_option("--v-cutoff-V", o->v_cutoff_V, "end-of-discharge cell voltage, V (default: the top of the chemistry's usual end-of-discharge range)")
       ->check(number_in(between(0.5, 5.0, "V")));
   c->add_option("--series", o->series, "cells in series in a pack log (voltage is divided by it)")->check(whole_in(1, 1000));
   c->add_option("--parallel", o->parallel, "cells in parallel in a pack log (current is divided by it)")->check(whole_in(1, 1000));

@@ -308,7 +308,8 @@ CellFitResult fit_impl(const CellLog& log, const CellFitOptions& opts, const Soc
   // A problem with the OCV free on the grid (or held at first_ocv), time constants shared across
   // knots unless `tau_tables`.
   auto problem = [&](const std::vector<double>& k, bool tau_tables, bool free_ocv, const std::vector<char>* mask = nullptr) {
-    RcProblem p(log, soc, first_ocv.ocv, k, nrc, mask ? *mask : use);
+    RcProblem p(log, soc, first_ocv.ocv, k, nrc, mask ? *mask : use, RcProblem::RowMerge::held_current);
+    out.rows_evaluated = p.rows_evaluated();
     if (!tau_tables)
       for (int q = 0; q < nrc; ++q) p.set_shared(2 + 2 * q, true);
     if (free_ocv) p.free_ocv(grid, 0.0);

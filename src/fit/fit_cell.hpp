@@ -82,6 +82,9 @@ struct CellFitResult {
   std::size_t rests = 0, ocv_rest_points = 0, ocv_loaded_points = 0;
   // Parameters.
   std::size_t steps = 0;
+  /// Rows the RC fit evaluates residuals on: held-current stretches of a fast log are merged
+  /// into steps of up to 1 s (fit/rc_fit RowMerge), so this can be below `rows`.
+  std::size_t rows_evaluated = 0;
   int n_rc = 2;
   bool tables = false;        ///< SoC-dependent tables written
   bool tau_tables = false;    ///< the time constants too (else one per pair)

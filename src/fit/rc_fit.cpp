@@ -28,6 +28,15 @@ void locate(const std::vector<double>& x, double s, std::size_t& j, double& w) {
 
 /// Rows of J gathered before a blocked rank update of JᵀJ (far faster than one row at a time).
 constexpr Eigen::Index kBlock = 256;
+/// Merging of held-current rows (see the constructor): the longest merged row, s; its largest
+/// share of the time since the last current change; and the current change that ends a merge,
+/// the larger of an absolute floor (A) and a fraction of the log's largest current. A choice of
+/// ours, not a published rule: the merged step is below the shortest time constant the fit
+/// allows at a current change's tail, and far above logger noise.
+constexpr double kMergeMaxS = 1.0;
+constexpr double kMergeFraction = 0.05;
+constexpr double kMergeCurrentA = 0.01;
+constexpr double kMergeCurrentFraction = 0.01;
 
 }  // namespace
 
@@ -50,23 +59,56 @@ Table RcTables::r_table(int p) const { return knots.size() == 1 ? Table(r_ohm[p]
 Table RcTables::tau_table(int p) const { return knots.size() == 1 ? Table(tau_s[p][0]) : Table(knots, tau_s[p]); }
 
 RcProblem::RcProblem(const CellLog& log, const std::vector<double>& soc, const Table& ocv,
-                     std::vector<double> knots, int n_rc, std::vector<char> use)
-    : knots_(std::move(knots)), n_rc_(n_rc), soc_(soc), ocv_held_(ocv) {
+                     std::vector<double> knots, int n_rc, std::vector<char> use, RowMerge row_merge)
+    : knots_(std::move(knots)), n_rc_(n_rc), ocv_held_(ocv) {
   assert(!knots_.empty() && (n_rc == 1 || n_rc == 2));
   const std::size_t n = log.size();
-  rows_.resize(n);
+  // Rows of a held current are merged into one row of their summed step and charge-mean
+  // current (the RC update is exact for a held current over any step), weighted by the rows it
+  // stands for. A merged row spans at most kMergeMaxS, and at most kMergeFraction of the time
+  // since the last current change, so the fast response after every step keeps each sample.
+  // A log sampled at 1 s or slower is unchanged; a fast log loses nothing the model can show.
+  double i_max = 0.0;
+  for (double i : log.current_A) i_max = std::max(i_max, std::fabs(i));
+  const double tol = std::max(kMergeCurrentA, kMergeCurrentFraction * i_max);
+  rows_.reserve(n);
+  double t_step = log.size() ? log.time_s[0] : 0.0;  // time of the last current change
+  double soc_before = 0.0;  // SoC at the row before the open merged row
   for (std::size_t k = 0; k < n; ++k) {
-    Row& r = rows_[k];
-    r.restart = k == 0 || log.starts_section(k);
-    r.dt = r.restart ? 0.0 : log.time_s[k] - log.time_s[k - 1];
-    r.i = log.current_A[k];
+    const bool restart = k == 0 || log.starts_section(k);
+    const bool use_k = use.empty() || use[k];
+    rows_used_ += use_k ? 1 : 0;
+    if (!restart && std::fabs(log.current_A[k] - log.current_A[k - 1]) > tol) t_step = log.time_s[k - 1];
+    const double dt = restart ? 0.0 : log.time_s[k] - log.time_s[k - 1];
+    if (restart) t_step = log.time_s[k];
+    bool merge = false;
+    if (row_merge == RowMerge::held_current && !restart && !rows_.empty()) {
+      const Row& last = rows_.back();
+      const double span = last.dt + dt;
+      const double start = log.time_s[k] - span;  // the merged row would begin here
+      merge = !last.restart && last.use == use_k && std::fabs(log.current_A[k] - last.i) <= tol &&
+              span <= std::min(kMergeMaxS, kMergeFraction * (start - t_step));
+    }
+    if (!merge) {
+      soc_before = k > 0 ? soc[k - 1] : soc[k];
+      rows_.push_back(Row{});
+      Row& r = rows_.back();
+      r.restart = restart;
+      r.use = use_k;
+      r.i = log.current_A[k];
+      r.weight = 0.0;
+    }
+    Row& r = rows_.back();
+    const double charge = r.i * r.dt + log.current_A[k] * dt;
+    r.dt += dt;
+    if (r.dt > 0.0) r.i = charge / r.dt;
+    r.weight += 1.0;
     r.v = log.voltage_V[k];
     r.y = log.voltage_V[k] - ocv(soc[k]);
+    r.soc = soc[k];
     locate(knots_, soc[k], r.j0, r.w0);
-    const double mid = r.restart ? soc[k] : 0.5 * (soc[k] + soc[k - 1]);
+    const double mid = r.restart ? soc[k] : 0.5 * (soc[k] + soc_before);
     locate(knots_, mid, r.j1, r.w1);
-    r.use = use.empty() || use[k];
-    rows_used_ += r.use ? 1 : 0;
   }
 }
 
@@ -74,7 +116,7 @@ void RcProblem::free_ocv(std::vector<double> grid, double rho_V) {
   assert(grid.size() >= 2);
   grid_ = std::move(grid);
   rho_ocv_ = rho_V;
-  for (std::size_t k = 0; k < rows_.size(); ++k) locate(grid_, soc_[k], rows_[k].o, rows_[k].wo);
+  for (Row& r : rows_) locate(grid_, r.soc, r.o, r.wo);
 }
 
 Eigen::Index RcProblem::n_free_rc() const {
@@ -218,17 +260,17 @@ void RcProblem::evaluate(const Eigen::VectorXd& z, bool with_jacobian, NormalEqu
       const Eigen::Index oa = static_cast<Eigen::Index>(r.o);
       e = (1.0 - r.wo) * z[ocv_index(r.o)] + r.wo * z[ocv_index(r.o + 1)] - r0 * r.i - v[0] - v[1] - r.v;
       if (with_jacobian) {
-        const double ua = 1.0 - r.wo, ub = r.wo;
-        ocv_diag[oa] += ua * ua;
-        ocv_diag[oa + 1] += ub * ub;
-        ocv_off[oa] += ua * ub;
-        out.jtr[P + oa] += ua * e;
-        out.jtr[P + oa + 1] += ub * e;
+        const double ua = 1.0 - r.wo, ub = r.wo, w = r.weight;
+        ocv_diag[oa] += w * ua * ua;
+        ocv_diag[oa + 1] += w * ub * ub;
+        ocv_off[oa] += w * ua * ub;
+        out.jtr[P + oa] += w * ua * e;
+        out.jtr[P + oa + 1] += w * ub * e;
       }
     } else {
       e = -r0 * r.i - v[0] - v[1] - r.y;
     }
-    out.cost += 0.5 * e * e;
+    out.cost += 0.5 * r.weight * e * e;
     if (!with_jacobian) continue;
     auto row = block.row(filled);
     row.setZero();
@@ -241,8 +283,14 @@ void RcProblem::evaluate(const Eigen::VectorXd& z, bool with_jacobian, NormalEqu
       }
     if (free_ocv) {
       const Eigen::Index oa = static_cast<Eigen::Index>(r.o);
-      cross.row(oa) += (1.0 - r.wo) * row;
-      cross.row(oa + 1) += r.wo * row;
+      cross.row(oa) += r.weight * (1.0 - r.wo) * row;
+      cross.row(oa + 1) += r.weight * r.wo * row;
+    }
+    // The RC block takes the row and its residual each scaled by √weight.
+    if (r.weight != 1.0) {
+      const double sw = std::sqrt(r.weight);
+      row *= sw;
+      e *= sw;
     }
     eblock[filled] = e;
     if (++filled == kBlock) flush();

@@ -61,10 +61,17 @@ struct RcSolution {
 
 class RcProblem {
  public:
+  /// How log rows become the rows the residuals are evaluated on: one for one, or with rows of
+  /// a held current merged into steps of up to a second, weighted by the rows they stand for
+  /// (exact for the RC update at a held current; the RC parameters are then taken at the merged
+  /// step's mid SoC, a relative change of the order of 1e-4 in the noise-free test).
+  enum class RowMerge { none, held_current };
+
   /// `ocv` is the OCV when it is held (see free_ocv); rows with use[k] == 0 are simulated but
   /// not counted.
   RcProblem(const CellLog& log, const std::vector<double>& soc, const Table& ocv,
-            std::vector<double> knots, int n_rc, std::vector<char> use = {});
+            std::vector<double> knots, int n_rc, std::vector<char> use = {},
+            RowMerge merge = RowMerge::none);
 
   /// Fit the OCV too, on `grid` (SoC, increasing), with second-difference weight rho_V.
   void free_ocv(std::vector<double> grid, double rho_V);
@@ -77,6 +84,8 @@ class RcProblem {
   int n_rc() const { return n_rc_; }
   const std::vector<double>& ocv_grid() const { return grid_; }
   std::size_t rows_used() const { return rows_used_; }
+  /// Rows the residuals are evaluated on after steady stretches are merged (≤ the log's rows).
+  std::size_t rows_evaluated() const { return rows_.size(); }
   /// Free parameters: the RC values (shared ones once) and the OCV grid values.
   Eigen::Index n_free() const;
   /// Position of (type, knot) among the free parameters.
@@ -115,6 +124,8 @@ class RcProblem {
     double wo = 0.0;
     bool restart = false;
     bool use = true;
+    double soc = 0.0;    ///< SoC at the row's end
+    double weight = 1.0; ///< log rows this row stands for (merged steady stretches)
   };
   Eigen::Index n_full() const { return static_cast<Eigen::Index>((1 + 2 * n_rc_) * knots_.size()); }
   Eigen::Index full_index(int type, std::size_t j) const {
@@ -125,7 +136,6 @@ class RcProblem {
 
   std::vector<double> knots_;
   int n_rc_;
-  std::vector<double> soc_;
   Table ocv_held_;
   std::vector<Row> rows_;
   std::size_t rows_used_ = 0;

@@ -46,7 +46,7 @@ std::string fit_cell_text(const fit::CellLog& log, const fit::CellFitResult& r,
   KeyValues kv;
   kv.add("log", std::to_string(r.rows) + " rows in " + std::to_string(r.sections) + " section" +
                     (r.sections == 1 ? "" : "s") + ", " + duration_hms(r.duration_s) + ", time steps " +
-                    fixed(r.dt_min_s, 2) + " s to " + fixed(r.dt_max_s, 1) + " s");
+                    fixed(r.dt_min_s, r.dt_min_s < 0.1 ? 3 : 2) + " s to " + fixed(r.dt_max_s, r.dt_max_s < 1.0 ? 3 : 1) + " s");
   for (const auto& nline : r.notes) kv.add("", nline);
   if (r.has_temperature)
     kv.add("cell temperature", fixed(r.temperature_mean_C, 1) + " °C mean (" + fixed(r.temperature_min_C, 1) +
@@ -65,6 +65,10 @@ std::string fit_cell_text(const fit::CellLog& log, const fit::CellFitResult& r,
   kv.add("voltage RMSE", fixed(1000.0 * e.all.rmse_V, 1) + " mV over " + std::to_string(e.all.rows) +
                              " rows (the written model re-simulated on the log's current)");
   kv.add("largest error", fixed(1000.0 * e.all.max_abs_V, 1) + " mV at " + where(log, r, e.all.max_row));
+  if (r.rows_evaluated > 0 && r.rows_evaluated < r.rows)
+    kv.add("rows merged", std::to_string(r.rows) + " log rows fitted as " + std::to_string(r.rows_evaluated) +
+                              " steps: stretches of a held current merged into steps of up to 1 s, each weighted by "
+                              "the rows it stands for (the response after every current change keeps each sample)");
   if (e.counted.rows > 0 && e.counted.rows < e.all.rows)
     kv.add("rows fitted", "RMSE " + fixed(1000.0 * e.counted.rmse_V, 1) + " mV, largest " +
                               fixed(1000.0 * e.counted.max_abs_V, 1) + " mV over the " + std::to_string(e.counted.rows) +
@@ -193,6 +197,7 @@ nlohmann::ordered_json fit_cell_json(const fit::CellLog& log, const fit::CellFit
   j["voltage_max_error_line"] = e.all.rows ? log.line[e.all.max_row] : 0;
   j["voltage_mean_error_V"] = e.all.mean_V;
   j["held_out_blocks"] = r.held_out_blocks;
+  j["rows_evaluated"] = r.rows_evaluated;
   j["held_out_rows"] = r.held_out_rows;
   j["held_out_rmse_V"] = r.held_out_rows > 0 ? nlohmann::ordered_json(r.held_out_rmse_V) : nlohmann::ordered_json();
   if (r.cell.fit_quality)
