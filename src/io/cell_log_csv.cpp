@@ -191,7 +191,7 @@ fit::CellLog read_cell_log(const DelimitedFile& f, const CellLogOptions& opts) {
     }
   }
   const std::vector<std::string> header =
-      header_row ? f.rows[*header_row] : std::vector<std::string>{};
+      header_row ? f.rows[*header_row].to_vector() : std::vector<std::string>{};
   const std::size_t first_data = header_row ? *header_row + 1 : 0;
   const Column ct = cols.at("time"), ci = cols.at("current"), cv = cols.at("voltage");
   const std::optional<Column> ctemp = cols.count("temp") ? std::optional(cols.at("temp")) : std::nullopt;
@@ -207,10 +207,9 @@ fit::CellLog read_cell_log(const DelimitedFile& f, const CellLogOptions& opts) {
   std::size_t first_blank_line = 0;
   bool section_pending = true;
   bool all_integer_times = true;
-  auto field = [&](std::size_t r, const Column& c) -> const std::string& {
-    static const std::string empty;
-    const auto& row = f.rows[r];
-    return c.index < row.size() ? row[c.index] : empty;
+  auto field = [&](std::size_t r, const Column& c) -> std::string {
+    const auto row = f.rows[r];
+    return c.index < row.size() ? row[c.index] : std::string{};
   };
   auto bad = [&](std::size_t line, const Column& c, const std::string& what, const std::string& got,
                  const std::string& expected) {

@@ -20,8 +20,41 @@ const std::string kEmpty;
 
 }  // namespace
 
+std::string read_text_file(const std::filesystem::path& path) {
+  std::ifstream in(path, std::ios::binary);
+  if (!in) throw InputError(path.string() + ": cannot open the file");
+  std::error_code ec;
+  const bool regular = std::filesystem::is_regular_file(path, ec);
+  const std::uintmax_t size = regular ? std::filesystem::file_size(path, ec) : 0;
+  std::string text;
+  if (regular && !ec) {
+    text.resize(static_cast<std::size_t>(size));
+    in.read(text.data(), static_cast<std::streamsize>(size));
+    text.resize(static_cast<std::size_t>(std::max<std::streamsize>(0, in.gcount())));
+  } else {  // a pipe or a device: read as it comes
+    std::ostringstream ss;
+    ss << in.rdbuf();
+    text = ss.str();
+  }
+  return text;
+}
+
+bool LineCursor::next(std::string& line) {
+  if (pos_ >= text_.size()) return false;
+  const std::size_t end = text_.find('\n', pos_);
+  const std::size_t stop = end == std::string::npos ? text_.size() : end;
+  line.assign(text_, pos_, stop - pos_);
+  pos_ = end == std::string::npos ? text_.size() : end + 1;
+  return true;
+}
+
+std::size_t LineCursor::count(const std::string& text) {
+  return static_cast<std::size_t>(std::count(text.begin(), text.end(), '\n')) + 1;
+}
+
 std::vector<std::string> split_csv_line(const std::string& line) {
   std::vector<std::string> out;
+  out.reserve(static_cast<std::size_t>(std::count(line.begin(), line.end(), ',')) + 1);
   std::string cur;
   bool quoted = false;
   for (std::size_t i = 0; i < line.size(); ++i) {
@@ -53,11 +86,14 @@ std::vector<std::string> split_csv_line(const std::string& line) {
 CsvFile parse_csv(const std::string& text, const std::string& name, bool has_header) {
   CsvFile f;
   f.file = name;
-  std::istringstream in(text);
+  LineCursor in(text);
+  const std::size_t n_lines = LineCursor::count(text);
+  f.rows.reserve(n_lines);
+  f.lines.reserve(n_lines);
   std::string line;
   std::size_t n = 0;
   bool need_header = has_header;
-  while (std::getline(in, line)) {
+  while (in.next(line)) {
     ++n;
     if (!line.empty() && line.back() == '\r') line.pop_back();
     if (n == 1 && line.size() >= 3 && line.compare(0, 3, "\xEF\xBB\xBF") == 0) line.erase(0, 3);
@@ -83,11 +119,7 @@ CsvFile parse_csv(const std::string& text, const std::string& name, bool has_hea
 
 CsvFile read_csv(const std::filesystem::path& path, bool has_header) {
   note_input(path);
-  std::ifstream in(path, std::ios::binary);
-  if (!in) throw InputError(path.string() + ": cannot open the file");
-  std::ostringstream ss;
-  ss << in.rdbuf();
-  return parse_csv(ss.str(), path.string(), has_header);
+  return parse_csv(read_text_file(path), path.string(), has_header);
 }
 
 std::optional<std::size_t> CsvFile::find_column(const std::vector<std::string>& names) const {

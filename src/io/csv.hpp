@@ -41,4 +41,22 @@ CsvFile parse_csv(const std::string& text, const std::string& name, bool has_hea
 /// Split one CSV line into trimmed fields.
 std::vector<std::string> split_csv_line(const std::string& line);
 
+/// The whole file as text, read once into its final buffer (a large log is not copied again).
+/// Throws InputError when it cannot be opened. Does not call note_input.
+std::string read_text_file(const std::filesystem::path& path);
+
+/// Walks the lines of `text` as std::getline would (split at '\n', a last line without one
+/// counts), without copying the text into a stream.
+class LineCursor {
+ public:
+  explicit LineCursor(const std::string& text) : text_(text) {}
+  bool next(std::string& line);
+  /// Lines in the text (for reserving row storage).
+  static std::size_t count(const std::string& text);
+
+ private:
+  const std::string& text_;
+  std::size_t pos_ = 0;
+};
+
 }  // namespace sortie::io

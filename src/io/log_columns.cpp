@@ -51,10 +51,10 @@ std::vector<std::string> split_on(const std::string& line, char delim) {
 /// non-comment lines into the same number (above one) of fields; comma on a tie. A decimal comma
 /// in a semicolon file gives varying comma counts, so it does not win.
 char sniff_delimiter(const std::string& text) {
-  std::istringstream in(text);
+  LineCursor in(text);
   std::string line;
   std::vector<std::string> lines;
-  while (lines.size() < 50 && std::getline(in, line)) {
+  while (lines.size() < 50 && in.next(line)) {
     const std::string t = trim(line);
     if (!t.empty() && t[0] != '#') lines.push_back(t);
   }
@@ -82,21 +82,52 @@ bool is_unit_word(const std::string& u) {
 
 }  // namespace
 
+std::string FieldRows::Row::operator[](std::size_t c) const {
+  const std::size_t i = t_->first_[k_] + c;
+  const std::size_t b = i == 0 ? 0 : t_->ends_[i - 1];
+  return t_->chars_.substr(b, t_->ends_[i] - b);
+}
+
+std::vector<std::string> FieldRows::Row::to_vector() const {
+  std::vector<std::string> out;
+  out.reserve(size());
+  for (std::size_t c = 0; c < size(); ++c) out.push_back((*this)[c]);
+  return out;
+}
+
+bool FieldRows::Row::operator==(const std::vector<std::string>& other) const {
+  if (other.size() != size()) return false;
+  for (std::size_t c = 0; c < size(); ++c) {
+    const std::size_t i = t_->first_[k_] + c;
+    const std::size_t b = i == 0 ? 0 : t_->ends_[i - 1];
+    if (t_->chars_.compare(b, t_->ends_[i] - b, other[c]) != 0) return false;
+  }
+  return true;
+}
+
+void FieldRows::push_back(const std::vector<std::string>& fields, const std::string& file) {
+  std::size_t add = 0;
+  for (const auto& x : fields) add += x.size();
+  if (chars_.size() + add > UINT32_MAX || ends_.size() + fields.size() > UINT32_MAX)
+    throw InputError(file + ": the file holds more than 4 GiB of field text (expected a smaller log; split it)");
+  for (const auto& x : fields) {
+    chars_ += x;
+    ends_.push_back(static_cast<std::uint32_t>(chars_.size()));
+  }
+  first_.push_back(static_cast<std::uint32_t>(ends_.size()));
+}
+
 DelimitedFile parse_delimited(const std::string& text, const std::string& name) {
   DelimitedFile f;
   f.file = name;
   f.delimiter = sniff_delimiter(text);
-  if (f.delimiter == ',') {
-    CsvFile csv = parse_csv(text, name, false);
-    f.rows = std::move(csv.rows);
-    f.lines = std::move(csv.lines);
-    f.comments = std::move(csv.comments);
-    return f;
-  }
-  std::istringstream in(text);
+  LineCursor in(text);
+  const std::size_t n_lines = LineCursor::count(text);
+  f.rows.reserve(n_lines);
+  f.lines.reserve(n_lines);
   std::string line;
   std::size_t n = 0;
-  while (std::getline(in, line)) {
+  while (in.next(line)) {
     ++n;
     if (!line.empty() && line.back() == '\r') line.pop_back();
     if (n == 1 && line.size() >= 3 && line.compare(0, 3, "\xEF\xBB\xBF") == 0) line.erase(0, 3);
@@ -106,7 +137,7 @@ DelimitedFile parse_delimited(const std::string& text, const std::string& name) 
       f.comments.push_back(trim(t.substr(1)));
       continue;
     }
-    f.rows.push_back(split_on(line, f.delimiter));
+    f.rows.push_back(f.delimiter == ',' ? split_csv_line(line) : split_on(line, f.delimiter), name);
     f.lines.push_back(n);
   }
   return f;
@@ -114,11 +145,7 @@ DelimitedFile parse_delimited(const std::string& text, const std::string& name) 
 
 DelimitedFile read_delimited(const std::filesystem::path& path) {
   note_input(path);
-  std::ifstream in(path, std::ios::binary);
-  if (!in) throw InputError(path.string() + ": cannot open the file");
-  std::ostringstream ss;
-  ss << in.rdbuf();
-  return parse_delimited(ss.str(), path.string());
+  return parse_delimited(read_text_file(path), path.string());
 }
 
 std::string normalise_name(const std::string& text) {

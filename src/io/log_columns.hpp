@@ -4,6 +4,7 @@
 /// a unit ("Current (mA)", "voltage_V", "I[mA]"), `--columns` specifications, unit factors and
 /// time stamps written as numbers or clock times. Used by the cell-log and bench-log readers.
 #include <cstddef>
+#include <cstdint>
 #include <filesystem>
 #include <map>
 #include <optional>
@@ -14,10 +15,42 @@ namespace sortie::io {
 
 /// Rows of a delimited text file, fields trimmed, with their 1-based file lines. Lines starting
 /// with '#' are comments; blank lines are skipped; trailing empty fields are dropped.
+/// The fields of many rows in one buffer: a million-row log takes a few tens of MB, where a
+/// vector of vectors of strings takes over a hundred. Row k's fields are read as strings.
+class FieldRows {
+ public:
+  class Row {
+   public:
+    Row(const FieldRows& t, std::size_t k) : t_(&t), k_(k) {}
+    std::size_t size() const { return t_->first_[k_ + 1] - t_->first_[k_]; }
+    bool empty() const { return size() == 0; }
+    std::string operator[](std::size_t c) const;
+    std::vector<std::string> to_vector() const;
+    operator std::vector<std::string>() const { return to_vector(); }  // NOLINT: a row reads as its fields
+    bool operator==(const std::vector<std::string>& other) const;
+
+   private:
+    const FieldRows* t_;
+    std::size_t k_;
+  };
+  /// Appends a row; throws InputError (naming `file`) past 4 GiB of field text.
+  void push_back(const std::vector<std::string>& fields, const std::string& file = "");
+  void reserve(std::size_t rows) { first_.reserve(rows + 1); }
+  std::size_t size() const { return first_.size() - 1; }
+  bool empty() const { return size() == 0; }
+  Row operator[](std::size_t k) const { return Row(*this, k); }
+  Row front() const { return Row(*this, 0); }
+
+ private:
+  std::string chars_;
+  std::vector<std::uint32_t> ends_;        ///< end of each field in chars_
+  std::vector<std::uint32_t> first_{0};    ///< first field of each row, and one past the last
+};
+
 struct DelimitedFile {
   std::string file;
   char delimiter = ',';
-  std::vector<std::vector<std::string>> rows;
+  FieldRows rows;
   std::vector<std::size_t> lines;
   std::vector<std::string> comments;
 };
