@@ -127,7 +127,7 @@ double fewest_lines_direction_deg(const std::vector<Xy>& ring) {
     double dir = std::atan2(q.x - p.x, q.y - p.y) / kDeg;  // azimuth of the edge
     dir = std::fmod(dir + 360.0, 180.0);
     const double w = width_across(h, dir);
-    if (w < best_w - 1e-9 * std::max(1.0, best_w)) {
+    if (!std::isfinite(best_w) || w < best_w - 1e-9 * best_w) {
       best_w = w;
       best_dir = dir;
     }
