@@ -169,7 +169,8 @@ int run_route(const RouteOptions& o) {
       fp.accel_mps2 = value(o.accel, 2.0, "acceleration", "--accel-mps2", " m/s²");
       fp.yaw_rate_deg_s = value(o.yaw_rate, 45.0, "hover turn rate", "--yaw-rate-dps", " °/s");
     }
-    const plan::Pattern pat = plan::make_pattern(ring, dir, spacing, {0.0, 0.0});
+    const plan::OrderWind ow{fp.airspeed_mps, fp.transit_airspeed_mps, wind.speed_mps, wind.from_deg};
+    const plan::Pattern pat = plan::make_pattern(ring, dir, spacing, {0.0, 0.0}, ow);
     if (pat.passes.empty())
       throw InputError(io::message(g.source, g.ring_pointer, "no survey line falls inside the field"));
     planned = plan::survey_phases(pat, plane, home, fp);
@@ -189,7 +190,7 @@ int run_route(const RouteOptions& o) {
     const double other_dir = std::fmod(dir + 90.0, 180.0);
     const double t_this = pass_time(pat);
     const double t_other = other_dir <= 180.0 && spacing <= plan::width_across(ring, other_dir)
-                               ? pass_time(plan::make_pattern(ring, other_dir, spacing, {0.0, 0.0}))
+                               ? pass_time(plan::make_pattern(ring, other_dir, spacing, {0.0, 0.0}, ow))
                                : std::numeric_limits<double>::infinity();
     std::string wind_note;
     if (wind.speed_mps <= 0.0) wind_note = "calm: the line direction does not change the time on the lines";

@@ -103,9 +103,7 @@ std::vector<PlannedPhase> route_phases(const std::vector<RoutePoint>& pts, const
                      pts[i + 1].at});
   }
   const geo::LonLat last = pts.back().at;
-  const double last_h = height_of(pts.size() - 1);
   const double track = out.empty() ? 0.0 : out.back().phase.track_deg;
-  if (last_h > h) out.push_back({climb(last_h, fp, track, "climb at the last waypoint"), last});
   out.push_back({descend(0.0, fp, track, "descend at the last waypoint"), last});
   return out;
 }

@@ -51,7 +51,7 @@ struct RoutePoint {
 /// Take off at the first point, climb to its height, then for each leg climb or descend to the
 /// next point's height at the leg's start and cruise the leg's geodesic distance on its initial
 /// azimuth (over a few km the azimuth turns by well under 0.1°); descend to the ground at the
-/// last point. The ground covered while climbing is not taken off the leg (a longer flight).
+/// last point (the landing point: its own height is not flown). The ground covered while climbing is not taken off the leg (a longer flight).
 std::vector<PlannedPhase> route_phases(const std::vector<RoutePoint>& pts, const FlightPlan& fp);
 
 /// Climb over home, transit to the first pass, the passes with their turns, transit back,

@@ -132,14 +132,25 @@ double fewest_lines_direction_deg(const std::vector<Xy>& ring) {
       best_dir = dir;
     }
   }
-  return best_dir >= 180.0 ? 0.0 : best_dir;
+  // An edge a hair off north (179.99999°) is a north-south line: 0°.
+  return best_dir >= 180.0 - 1e-6 ? 0.0 : best_dir;
 }
 
 double spacing_from_sensor(double height_m, double fov_deg, double side_overlap) {
   return 2.0 * height_m * std::tan(0.5 * fov_deg * kDeg) * (1.0 - side_overlap);
 }
 
-Pattern make_pattern(const std::vector<Xy>& ring, double direction_deg, double spacing_m, const Xy& home) {
+Pattern make_pattern(const std::vector<Xy>& ring, double direction_deg, double spacing_m, const Xy& home,
+                     const OrderWind& wind) {
+  // Time of a straight stretch (or its length, with no airspeed); unflyable is infinite.
+  auto cost = [&](const Xy& a, const Xy& b, bool transit = false) {
+    const double d = std::hypot(b.x - a.x, b.y - a.y);
+    if (wind.airspeed_mps <= 0.0 || d == 0.0) return d;
+    const double v = transit && wind.transit_airspeed_mps > 0.0 ? wind.transit_airspeed_mps : wind.airspeed_mps;
+    const double track = std::atan2(b.x - a.x, b.y - a.y) / kDeg;
+    const double gs = ground_speed_mps(v, track, wind.wind_mps, wind.wind_from_deg);
+    return gs > 0.0 ? d / gs : std::numeric_limits<double>::infinity();
+  };
   Pattern pat;
   pat.direction_deg = direction_deg;
   pat.spacing_m = spacing_m;
@@ -195,8 +206,11 @@ Pattern make_pattern(const std::vector<Xy>& ring, double direction_deg, double s
         up = !up;
       }
       if (order.empty()) continue;
-      const double d = std::hypot(order.front().a.x - home.x, order.front().a.y - home.y) +
-                       std::hypot(order.back().b.x - home.x, order.back().b.y - home.y);
+      double d = cost(home, order.front().a, true) + cost(order.back().b, home, true);
+      for (std::size_t i = 0; i < order.size(); ++i) {
+        d += cost(order[i].a, order[i].b);
+        if (i + 1 < order.size()) d += cost(order[i].b, order[i + 1].a);
+      }
       if (d < best - 1e-9) {
         best = d;
         pat.passes = std::move(order);

@@ -60,9 +60,19 @@ inline constexpr double kSpacingSlack = 1e-3;
 /// Lines on `direction_deg` at `spacing_m`, n = ceil(width / spacing − kSpacingSlack), centred across the field
 /// (the first and last lie within half a spacing of the edges). Each line is cut to the inside of
 /// the ring (even-odd crossings). The order flies line after line, reversing each time, starting
-/// at whichever of the four corners of the pattern gives the shortest transit from and back to
-/// `home`. Throws nothing: the caller checks spacing ≤ width and the ring first.
-Pattern make_pattern(const std::vector<Xy>& ring, double direction_deg, double spacing_m, const Xy& home);
+/// at whichever of the four corners of the pattern gives the shortest time in the wind (`wind`):
+/// the transit from home, the passes, the straight steps between them and the transit back, each
+/// at its airspeed with its ground speed from the wind triangle; in calm air (or with no
+/// airspeed given) the shortest distance. Throws nothing: the caller checks spacing ≤ width and
+/// the ring first.
+struct OrderWind {
+  double airspeed_mps = 0.0;          ///< on the passes and the steps
+  double transit_airspeed_mps = 0.0;  ///< from and back to home (0: airspeed_mps)
+  double wind_mps = 0.0;
+  double wind_from_deg = 0.0;
+};
+Pattern make_pattern(const std::vector<Xy>& ring, double direction_deg, double spacing_m, const Xy& home,
+                     const OrderWind& wind = {});
 
 /// Length of a fixed-wing turn from the end of one pass onto the next, reversed pass, at turn
 /// radius r: the passes are `offset_m` apart across the track. Offset ≥ 2r: a quarter circle, the
