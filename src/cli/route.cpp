@@ -20,18 +20,24 @@
 #include "io/profile_write.hpp"
 #include "plan/legs.hpp"
 #include "plan/survey.hpp"
+#include "report/route_geojson.hpp"
+#include "sim/mission.hpp"
+#include "sim/turn_home.hpp"
 
 namespace sortie::cli {
 
 namespace {
 
 struct RouteOptions {
-  std::string geometry, profile, out, json_file, home, turns;
+  std::string geometry, profile, out, json_file, home, turns, predict;
   std::optional<double> height_m, airspeed, transit_airspeed, climb_rate, climb_airspeed, descent_rate,
       descent_airspeed, spacing, fov, overlap, direction, bank, accel, yaw_rate, loiter_s, loiter_airspeed,
       loiter_radius;
   bool quiet = false;
 };
+
+/// A line direction as "a/b°", both ends in [0, 360) after rounding to 0.1°.
+std::string both_ways(double dir);
 
 std::string fmt(double v, int digits = 1) {
   std::ostringstream s;
@@ -39,6 +45,12 @@ std::string fmt(double v, int digits = 1) {
   s.precision(digits);
   s << v;
   return s.str();
+}
+
+std::string both_ways(double dir) {
+  double d = std::round(dir * 10.0) / 10.0;
+  if (d >= 180.0) d -= 180.0;
+  return fmt(d) + "/" + fmt(d + 180.0) + "°";
 }
 
 geo::LonLat parse_home(const std::string& s) {
@@ -158,7 +170,7 @@ int run_route(const RouteOptions& o) {
     const double width = plan::width_across(ring, dir);
     if (spacing > width)
       throw InputError(io::message(g.source, g.ring_pointer, "the line spacing is larger than the field",
-                                   format_number(spacing) + " m", "at most the field's width across lines on " + fmt(dir) + "°, " + fmt(width) + " m"));
+                                   format_number(spacing) + " m", "at most the field's width across lines on " + both_ways(dir) + ", " + fmt(width) + " m"));
     const std::string turns = o.turns.empty() ? (fixed_wing ? "bank" : "stop") : o.turns;
     if (o.turns.empty()) stated.push_back(std::string("turns ") + turns + " (default for a " + (fixed_wing ? "fixed wing" : "multirotor") + "; --turns)");
     fp.turns = turns == "bank" ? plan::Turns::bank : turns == "stop" ? plan::Turns::stop : plan::Turns::square;
@@ -196,8 +208,7 @@ int run_route(const RouteOptions& o) {
     if (wind.speed_mps <= 0.0) wind_note = "calm: the line direction does not change the time on the lines";
     else
       wind_note = "in the wind of " + format_number(wind.speed_mps) + " m/s from " + format_number(wind.from_deg) + "°, lines on " +
-                  fmt(dir) + "/" + fmt(dir + 180.0) + "° take " + fmt(t_this, 0) + " s on the lines, lines on " + fmt(other_dir) + "/" +
-                  fmt(other_dir + 180.0) + "° would take " + (std::isfinite(t_other) ? fmt(t_other, 0) + " s" : "(not flyable)") +
+                  both_ways(dir) + " take " + fmt(t_this, 0) + " s on the lines, lines on " + both_ways(other_dir) + " would take " + (std::isfinite(t_other) ? fmt(t_other, 0) + " s" : "(not flyable)") +
                   ": the " + (t_this <= t_other ? "chosen" : "other") + " direction flies cheaper (same airspeed; turns and transits not counted)";
     double turn_r = fp.turns == plan::Turns::bank ? plan::turn_radius_m(fp.airspeed_mps, fp.bank_deg) : 0.0;
     summary["survey"] = {{"lines", pat.lines},       {"passes", pat.passes.size()},
@@ -209,8 +220,7 @@ int run_route(const RouteOptions& o) {
       summary["survey"]["bank_deg"] = fp.bank_deg;
       summary["survey"]["turn_radius_m"] = turn_r;
     }
-    text << "survey: " << pat.lines << " lines (" << pat.passes.size() << " passes) on " << fmt(dir) << "/" << fmt(dir + 180.0)
-         << "°, " << fmt(spacing) << " m apart (" << spacing_from << "); field " << fmt(width) << " m across the lines\n";
+    text << "survey: " << pat.lines << " lines (" << pat.passes.size() << " passes) on " << both_ways(dir) << ", " << fmt(spacing) << " m apart (" << spacing_from << "); field " << fmt(width) << " m across the lines\n";
     text << "direction: " << dir_from << "\n";
     text << "turns: " << plan::to_string(fp.turns);
     if (fp.turns == plan::Turns::bank) text << " at " << format_number(fp.bank_deg) << "° bank, radius " << fmt(turn_r) << " m (r = V²/(g·tan φ))";
@@ -232,11 +242,25 @@ int run_route(const RouteOptions& o) {
   const nlohmann::json prof = io::generated_profile(base_json, base_dir, out_dir, name, note, phases);
   const std::string content = prof.dump(2) + "\n";
   // The loader must read back what is written (checked before anything is written).
-  io::parse_profile_json(content, io::Source{o.out, out_dir});
+  const io::LoadedProfile gen = io::parse_profile_json(content, io::Source{o.out, out_dir});
+  std::string predicted;
+  if (!o.predict.empty()) {
+    // The generated mission flown once with a trace, and its turn-home point.
+    sim::SimOptions so;
+    so.sample_s = 1.0;
+    const sim::MissionResult res = sim::simulate(gen.mission, so);
+    if (res.refused) throw InputError(io::refusal_message(gen, res));
+    const sim::TurnHome th = sim::solve_turn_home(gen.mission);
+    const geo::LonLat start = survey ? planned.front().end : g.route.front().at;
+    predicted = report::route_geojson(start, planned, gen.mission, res, th).dump(1) + "\n";
+    text << "flown: " << fmt(res.flight_time_s, 0) << " s, landing at " << fmt(100.0 * res.landing.soc, 1) << " % charge"
+         << (th.point ? ", latest turn home at " + fmt(th.point->t_s, 0) + " s" : std::string(", turning home holds all the way")) << "\n";
+  }
   summary["profile"] = o.out;
   summary["phases"] = phases.size();
   summary["defaults"] = stated;
   io::write_output(o.out, content);
+  if (!o.predict.empty()) io::write_output(o.predict, predicted);
   if (!o.json_file.empty()) io::write_output(o.json_file, summary.dump(2) + "\n");
   if (!o.quiet && o.json_file != "-") {
     text << "wrote " << o.out << ": " << phases.size() << " phases; fly it with: sortie fly " << o.out << "\n";
@@ -282,6 +306,8 @@ void add_route_command(CLI::App& app, int& exit_code) {
   c->add_option("--loiter-s", o->loiter_s, "a wait over home before the let-down, marked spare")->check(number_in(above_to(0.0, 1e6, "s")));
   c->add_option("--loiter-airspeed-mps", o->loiter_airspeed, "loiter airspeed (fixed wing; default --airspeed-mps)")->check(number_in(speed));
   c->add_option("--loiter-radius-m", o->loiter_radius, "loiter circle radius (fixed wing)")->check(number_in(above_to(0.0, 1e5, "m")));
+  c->add_option("--predict", o->predict, "fly the new profile and write the route with per-waypoint predictions and the turn-home point as GeoJSON")
+      ->check(output_path());
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
   c->callback([o, &exit_code] { exit_code = run_route(*o); });
 }

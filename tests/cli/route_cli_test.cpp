@@ -57,7 +57,7 @@ TEST_CASE("route cli: the demo fixed-wing survey from its field polygon flies wi
   CHECK(lines == 6);
 }
 
-TEST_CASE("route cli: a LineString route becomes climb, legs and a let-down that fly") {
+TEST_CASE("route cli: a LineString route becomes climbs and legs and a let-down that fly") {
   const std::string route = write_work_file("route.geojson",
       R"({"type":"LineString","coordinates":[[8.6100,46.3100,60],[8.6200,46.3100],[8.6200,46.3180,90],[8.6100,46.3100]]})");
   const std::string out = work_path("gen_route.json");
@@ -78,7 +78,7 @@ TEST_CASE("route cli: a LineString route becomes climb, legs and a let-down that
   CHECK(run_sortie({"fly", out, "--quiet"}).exit_code != 1);
 }
 
-TEST_CASE("route cli: bad geometry is one line with the file and JSON pointer, and nothing is written") {
+TEST_CASE("route cli: bad geometry is one line with the file and JSON pointer and nothing is written") {
   const std::string out = work_path("never.json");
   auto refuse = [&](const std::string& name, const std::string& text, const std::string& want,
                     std::vector<std::string> extra = {}) {
@@ -107,4 +107,45 @@ TEST_CASE("route cli: bad geometry is one line with the file and JSON pointer, a
          "/coordinates/0/1/1: ");
   refuse("wide.geojson", R"({"type":"Polygon","coordinates":[[[8.6,46.3],[8.601,46.3],[8.601,46.31],[8.6,46.31],[8.6,46.3]]]})",
          "/coordinates/0: the line spacing is larger than the field", {"--spacing-m", "200"});
+}
+
+TEST_CASE("route cli: --predict writes the route with the predictions of the flight at each phase end") {
+  // The same mission through `fly`: the last waypoint's time is its flight time and its state
+  // the landing state; times rise and charge falls along the route; a mission long enough to
+  // need it carries the turn-home point, at the time fly's own turn-home solve gives.
+  const std::string out = work_path("gen_pred.json"), pred = work_path("gen_pred.geojson");
+  const CliResult r = run_sortie({"route", source_path("profiles/demo-fixed-wing-field.geojson"), "--profile", source_path(kBase),
+                                  "-o", out, "--height-m", "120", "--airspeed-mps", "15", "--fov-deg", "70", "--overlap", "0.4",
+                                  "--loiter-s", "600", "--loiter-radius-m", "60", "--descent-rate-mps", "0.8",
+                                  "--descent-airspeed-mps", "12", "--predict", pred, "--quiet"});
+  INFO(r.err);
+  REQUIRE(r.exit_code == 0);
+  const auto g = nlohmann::json::parse(read_file(pred));
+  const auto fly = nlohmann::json::parse(run_sortie({"fly", out, "--json", "-", "--quiet"}).out);
+  const auto& f = g.at("features");
+  CHECK(f.at(0).at("geometry").at("type") == "LineString");
+  double t = 0.0, soc = 1.0;
+  int waypoints = 0;
+  const nlohmann::json* turn = nullptr;
+  const nlohmann::json* last = nullptr;
+  for (const auto& x : f) {
+    const auto& p = x.at("properties");
+    if (p.at("role") == "turn_home") turn = &x;
+    if (p.at("role") != "waypoint") continue;
+    ++waypoints;
+    CHECK(p.at("time_s").get<double>() > t);
+    CHECK(p.at("soc").get<double>() <= soc);
+    t = p.at("time_s").get<double>();
+    soc = p.at("soc").get<double>();
+    last = &x;
+  }
+  REQUIRE(last != nullptr);
+  CHECK(waypoints == static_cast<int>(fly.at("phases").size()));
+  CHECK(t == doctest::Approx(fly.at("flight_time_s").get<double>()).epsilon(1e-6));
+  CHECK(last->at("properties").at("soc").get<double>() == doctest::Approx(fly.at("landing").at("soc").get<double>()).epsilon(1e-6));
+  REQUIRE(turn != nullptr);
+  CHECK(turn->at("geometry").at("type") == "Point");
+  CHECK(turn->at("properties").at("time_s").get<double>() ==
+        doctest::Approx(fly.at("turn_home").at("point").at("t_s").get<double>()).epsilon(1e-9));
+  MESSAGE("turn home at " << turn->at("properties").at("time_s").get<double>() << " s");
 }

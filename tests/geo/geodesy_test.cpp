@@ -17,7 +17,7 @@
 
 using namespace sortie::geo;
 
-TEST_CASE("geodesy: Karney 2013 Table 1, the direct problem on WGS 84") {
+TEST_CASE("geodesy: Karney 2013 Table 1 (the direct problem on WGS 84)") {
   // Table 1: φ1 = 40°, α1 = 30°, s12 = 10 000 km gives φ2 = 41.79331020506°,
   // λ12 = 137.84490004377°, α2 = 149.09016931807° (values quoted from memory; they agree with
   // GeographicLib's Python package to all the digits quoted). Tolerance 1e-9° ≈ 0.1 mm.
@@ -28,7 +28,7 @@ TEST_CASE("geodesy: Karney 2013 Table 1, the direct problem on WGS 84") {
   CHECK(std::abs(azi2 - 149.09016931807) < 1e-9);
 }
 
-TEST_CASE("geodesy: Karney 2013 Table 2, the inverse problem for nearly coincident points") {
+TEST_CASE("geodesy: Karney 2013 Table 2 (the inverse problem for nearly coincident points)") {
   // Table 2: φ1 = −30.12345°, φ2 = −30.12344°, λ12 = 0.00005° gives s12 = 4.944208 m,
   // α1 = 77.04353354°, α2 = 77.04350845° (from memory, to the digits quoted; they agree with
   // GeographicLib's Python package). Tolerances: half a unit in the last quoted digit.

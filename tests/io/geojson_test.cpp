@@ -23,7 +23,7 @@ std::string error_of(const std::string& text) {
 
 }  // namespace
 
-TEST_CASE("geojson: a LineString route with heights, Points with height_m, a field with its home") {
+TEST_CASE("geojson: a LineString route with heights and Points with height_m and a field with its home") {
   auto r = parse_geojson_text(R"({"type":"LineString","coordinates":[[8.6,46.3,50],[8.61,46.3],[8.61,46.31,80]]})", "r");
   REQUIRE(r.route.size() == 3);
   CHECK(*r.route[0].height_m == 50.0);

@@ -86,7 +86,7 @@ Coverage raster(const std::vector<Xy>& ring, const Pattern& pat, double footprin
 
 }  // namespace
 
-TEST_CASE("survey: line counts of rectangles, n = ceil(width / spacing) across the narrow side") {
+TEST_CASE("survey: line counts of rectangles are ceil(width / spacing) across the narrow side") {
   // 1000 m by 400 m, 100 m apart: lines run along the 1000 m side, 400/100 = 4 lines; 450 m deep
   // needs 5 (ceil 4.5). Turned by 30°, the same counts and the line direction turns with it.
   CHECK(fewest_lines_direction_deg(rect(1000, 400)) == doctest::Approx(90.0));
@@ -109,7 +109,7 @@ TEST_CASE("survey: line counts of rectangles, n = ceil(width / spacing) across t
   CHECK(p.width_m == doctest::Approx(400.0));
 }
 
-TEST_CASE("survey: an L-shaped field, worked out by hand") {
+TEST_CASE("survey: an L-shaped field worked out by hand") {
   // Hull of the L: widths across its edges are 800 (bottom, top), 600 (left, right) and
   // 610.2 m (the diagonal from (600, 200) to (200, 800)): the narrowest is 600 m across the
   // north-south edges, so lines run north-south: ceil(600/100) = 6 lines at x = 50 … 550,
