@@ -20,6 +20,7 @@
 #include "io/profile_write.hpp"
 #include "plan/legs.hpp"
 #include "plan/survey.hpp"
+#include "report/plan_view.hpp"
 #include "report/route_geojson.hpp"
 #include "sim/mission.hpp"
 #include "sim/turn_home.hpp"
@@ -29,7 +30,7 @@ namespace sortie::cli {
 namespace {
 
 struct RouteOptions {
-  std::string geometry, profile, out, json_file, home, turns, predict;
+  std::string geometry, profile, out, json_file, home, turns, predict, html;
   std::optional<double> height_m, airspeed, transit_airspeed, climb_rate, climb_airspeed, descent_rate,
       descent_airspeed, spacing, fov, overlap, direction, bank, accel, yaw_rate, loiter_s, loiter_airspeed,
       loiter_radius;
@@ -243,7 +244,8 @@ int run_route(const RouteOptions& o) {
   const std::string content = prof.dump(2) + "\n";
   // The loader must read back what is written (checked before anything is written).
   const io::LoadedProfile gen = io::parse_profile_json(content, io::Source{o.out, out_dir});
-  std::string predicted;
+  std::string predicted, page;
+  if (!o.html.empty() && o.predict.empty()) throw UsageError("--html needs --predict (the plan view shows the flown predictions)");
   if (!o.predict.empty()) {
     // The generated mission flown once with a trace, and its turn-home point.
     sim::SimOptions so;
@@ -252,7 +254,9 @@ int run_route(const RouteOptions& o) {
     if (res.refused) throw InputError(io::refusal_message(gen, res));
     const sim::TurnHome th = sim::solve_turn_home(gen.mission);
     const geo::LonLat start = survey ? planned.front().end : g.route.front().at;
-    predicted = report::route_geojson(start, planned, gen.mission, res, th).dump(1) + "\n";
+    const nlohmann::json rg = report::route_geojson(start, planned, gen.mission, res, th);
+    predicted = rg.dump(1) + "\n";
+    if (!o.html.empty()) page = report::plan_view_page(rg, gen.mission, res);
     text << "flown: " << fmt(res.flight_time_s, 0) << " s, landing at " << fmt(100.0 * res.landing.soc, 1) << " % charge"
          << (th.point ? ", latest turn home at " + fmt(th.point->t_s, 0) + " s" : std::string(", turning home holds all the way")) << "\n";
   }
@@ -261,6 +265,7 @@ int run_route(const RouteOptions& o) {
   summary["defaults"] = stated;
   io::write_output(o.out, content);
   if (!o.predict.empty()) io::write_output(o.predict, predicted);
+  if (!o.html.empty()) io::write_output(o.html, page);
   if (!o.json_file.empty()) io::write_output(o.json_file, summary.dump(2) + "\n");
   if (!o.quiet && o.json_file != "-") {
     text << "wrote " << o.out << ": " << phases.size() << " phases; fly it with: sortie fly " << o.out << "\n";
@@ -308,6 +313,7 @@ void add_route_command(CLI::App& app, int& exit_code) {
   c->add_option("--loiter-radius-m", o->loiter_radius, "loiter circle radius (fixed wing)")->check(number_in(above_to(0.0, 1e5, "m")));
   c->add_option("--predict", o->predict, "fly the new profile and write the route with per-waypoint predictions and the turn-home point as GeoJSON")
       ->check(output_path());
+  c->add_option("--html", o->html, "with --predict: an offline plan view (SVG in HTML) of the route coloured by charge")->check(output_path());
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
   c->callback([o, &exit_code] { exit_code = run_route(*o); });
 }

@@ -149,3 +149,31 @@ TEST_CASE("route cli: --predict writes the route with the predictions of the fli
         doctest::Approx(fly.at("turn_home").at("point").at("t_s").get<double>()).epsilon(1e-9));
   MESSAGE("turn home at " << turn->at("properties").at("time_s").get<double>() << " s");
 }
+
+TEST_CASE("route cli: --html draws the plan view with the turn-home point and the wind and its colours follow the charge") {
+  const std::string out = work_path("gen_html.json"), pred = work_path("gen_html.geojson"), page = work_path("gen_html.html");
+  const CliResult r = run_sortie({"route", source_path("profiles/demo-fixed-wing-field.geojson"), "--profile", source_path(kBase),
+                                  "-o", out, "--height-m", "120", "--airspeed-mps", "15", "--fov-deg", "70", "--overlap", "0.4",
+                                  "--loiter-s", "600", "--loiter-radius-m", "60", "--descent-rate-mps", "0.8",
+                                  "--descent-airspeed-mps", "12", "--predict", pred, "--html", page, "--quiet"});
+  INFO(r.err);
+  REQUIRE(r.exit_code == 0);
+  const std::string h = read_file(page);
+  CHECK(h.find("<svg") != std::string::npos);
+  CHECK(h.find("<title>turn-home point</title>") != std::string::npos);
+  CHECK(h.find("wind 6.0 m/s from 270.0°") != std::string::npos);
+  // Hue 120·SoC: the first stretch is greener than the last.
+  std::vector<double> hues;
+  for (std::size_t p = h.find("stroke=\"hsl("); p != std::string::npos; p = h.find("stroke=\"hsl(", p + 1))
+    hues.push_back(std::stod(h.substr(p + 12, 8)));
+  REQUIRE(hues.size() > 10);
+  CHECK(hues.front() > hues.back());
+  CHECK(std::is_sorted(hues.rbegin(), hues.rend()));
+  // Without --predict there is nothing to draw: a usage error, nothing written.
+  const std::string out2 = work_path("gen_html2.json"), page2 = work_path("gen_html2.html");
+  const CliResult u = run_sortie({"route", source_path("profiles/demo-fixed-wing-field.geojson"), "--profile", source_path(kBase),
+                                  "-o", out2, "--height-m", "120", "--airspeed-mps", "15", "--spacing-m", "250", "--html", page2});
+  CHECK(u.exit_code == 2);
+  CHECK(!file_exists(out2));
+  CHECK(!file_exists(page2));
+}
