@@ -243,7 +243,9 @@ int run_route(const RouteOptions& o) {
   const nlohmann::json prof = io::generated_profile(base_json, base_dir, out_dir, name, note, phases);
   const std::string content = prof.dump(2) + "\n";
   // The loader must read back what is written (checked before anything is written).
-  const io::LoadedProfile gen = io::parse_profile_json(content, io::Source{o.out, out_dir});
+  // A phase the loader refuses (a ramp too slow for the wind, say) names the phase in the
+  // profile that would have been written; it is not written.
+  const io::LoadedProfile gen = io::parse_profile_json(content, io::Source{o.out + " (generated, not written)", out_dir});
   std::string predicted, page;
   if (!o.html.empty() && o.predict.empty()) throw UsageError("--html needs --predict (the plan view shows the flown predictions)");
   if (!o.predict.empty()) {

@@ -213,3 +213,41 @@ TEST_CASE("survey: ground speed in the wind triangle") {
   CHECK(ground_speed_mps(15, 90, 6, 270) == doctest::Approx(21.0));
   CHECK(ground_speed_mps(15, 0, 6, 270) == doctest::Approx(std::sqrt(225.0 - 36.0)));
 }
+
+TEST_CASE("survey: multirotor stop turns slow down and hover-turn and speed up with kinematics of constant acceleration") {
+  // Rest to rest at a = 2 m/s² and V = 10 m/s: each ramp covers V²/(2a) = 25 m at the mean speed
+  // V/2 (Newton's constant-acceleration kinematics); a 90° hover turn at 45 °/s lasts 2 s.
+  const sortie::geo::LonLat home{8.61, 46.31};
+  const sortie::geo::LocalPlane plane(home);
+  const Pattern p = make_pattern(rect(400, 300), 0.0, 100.0, {0, 0});
+  REQUIRE(p.lines == 4);
+  FlightPlan fp;
+  fp.height_m = 60;
+  fp.climb_rate_mps = 2;
+  fp.descent_rate_mps = 1.5;
+  fp.airspeed_mps = 10;
+  fp.transit_airspeed_mps = 10;
+  fp.turns = Turns::stop;
+  fp.accel_mps2 = 2.0;
+  fp.yaw_rate_deg_s = 45.0;
+  int hovers = 0, ramps = 0;
+  double on_lines = 0.0, steps = 0.0;
+  for (const auto& ph : survey_phases(p, plane, home, fp)) {
+    const auto& q = ph.phase;
+    if (q.kind == sortie::flight::Phase::Kind::hover) {
+      ++hovers;
+      CHECK(*q.duration_s == doctest::Approx(2.0));
+    }
+    if (q.label.find("speed up") != std::string::npos || q.label.find("slow down") != std::string::npos) {
+      ++ramps;
+      CHECK(*q.distance_m == doctest::Approx(25.0));
+      CHECK(q.airspeed_mps == doctest::Approx(5.0));
+    }
+    if (q.distance_m && q.label.rfind("line", 0) == 0) on_lines += *q.distance_m;
+    if (q.distance_m && q.label.rfind("step", 0) == 0) steps += *q.distance_m;
+  }
+  CHECK(hovers == 2 * 3);            // two hover turns at each of the 3 reversals
+  CHECK(ramps == 2 * (4 + 3));       // each line and each 100 m step from rest to rest
+  CHECK(on_lines == doctest::Approx(4 * 300.0).epsilon(1e-5));
+  CHECK(steps == doctest::Approx(3 * 100.0).epsilon(1e-5));
+}
