@@ -14,10 +14,17 @@ find_package(CLI11 QUIET CONFIG)
 sortie_require(CLI11_FOUND libcli11-dev "CLI11")
 find_package(nlohmann_json 3.10 QUIET CONFIG)
 sortie_require(nlohmann_json_FOUND nlohmann-json3-dev "nlohmann-json")
+# Geodesics (route legs, survey patterns) come from GeographicLib; they are not written here.
+# Debian ships a find module (no config file) under /usr/share/cmake/geographiclib.
+list(APPEND CMAKE_MODULE_PATH /usr/share/cmake/geographiclib)
+find_package(GeographicLib QUIET)
+sortie_require(GeographicLib_FOUND libgeographiclib-dev "GeographicLib (geodesics)")
 if(SORTIE_BUILD_TESTS)
   find_package(doctest QUIET CONFIG)
   sortie_require(doctest_FOUND doctest-dev "doctest")
 endif()
 
 add_library(sortie_deps INTERFACE)
-target_link_libraries(sortie_deps INTERFACE Boost::headers Eigen3::Eigen CLI11::CLI11 nlohmann_json::nlohmann_json)
+target_link_libraries(sortie_deps INTERFACE Boost::headers Eigen3::Eigen CLI11::CLI11 nlohmann_json::nlohmann_json
+                      ${GeographicLib_LIBRARIES})
+target_include_directories(sortie_deps INTERFACE ${GeographicLib_INCLUDE_DIRS})

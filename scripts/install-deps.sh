@@ -1,11 +1,12 @@
 #!/usr/bin/env bash
 # Install the Debian packages sortie needs, only those missing. Works as root, or through sudo.
 # Usage: scripts/install-deps.sh [--test]   (--test adds what the test suite needs: doctest, and
-# Debian's chromium for the headless browser check of the HTML reports, ctest -L browser)
+# Debian's chromium for the headless browser check of the HTML reports, ctest -L browser, and
+# python3-geographiclib, the independent geodesic reference the route tests compare with)
 set -euo pipefail
-pkgs=(g++ cmake make libboost-dev libeigen3-dev libcli11-dev nlohmann-json3-dev)
+pkgs=(g++ cmake make libboost-dev libeigen3-dev libcli11-dev nlohmann-json3-dev libgeographiclib-dev)
 if [[ "${1:-}" == "--test" ]]; then
-  pkgs+=(doctest-dev chromium)
+  pkgs+=(doctest-dev chromium python3-geographiclib)
 fi
 missing=()
 for p in "${pkgs[@]}"; do
