@@ -5,7 +5,9 @@
 #include "cli/number_option.hpp"
 #include "cli/coverage_options.hpp"
 #include "cli/report_output.hpp"
+#include "cli/progress.hpp"
 #include "cli/run.hpp"
+#include "cli/what_if.hpp"
 #include "core/error.hpp"
 #include "core/text.hpp"
 #include "io/output.hpp"
@@ -13,8 +15,10 @@
 #include "report/html_fly.hpp"
 #include "report/mission_report.hpp"
 #include "report/result_csv.hpp"
+#include "report/what_if_report.hpp"
 #include "sim/best_speeds.hpp"
 #include "sim/mission.hpp"
+#include "sim/sweep.hpp"
 #include "sim/turn_home.hpp"
 
 namespace sortie::cli {
@@ -27,11 +31,50 @@ struct FlyOptions {
   bool quiet = false;
   bool stop_at_coverage = false, accept_extrapolation = false;
   ReportOutput report;
+  WhatIfOptions what_if;
+  std::vector<std::string> sweeps;  ///< NAME=FROM:TO:STEP, one or two
+  unsigned threads = 0;             ///< 0: one per core
 };
+
+int run_sweep(const FlyOptions& o, const io::LoadedProfile& lp, const sim::Mission& m,
+              const std::vector<sim::Override>& overrides, bool print) {
+  std::vector<sim::SweepAxis> axes;
+  if (o.sweeps.size() > 2)
+    throw UsageError("--sweep: given " + std::to_string(o.sweeps.size()) + " times (expected once or twice)");
+  for (const auto& w : o.sweeps) {
+    axes.push_back(sim::parse_sweep(w));
+    if (o.what_if.numbers.count(axes.back().name))
+      throw UsageError("--sweep: " + axes.back().name + " is also set by --" + axes.back().name +
+                       " (expected one or the other)");
+    if (axes.size() == 2 && axes[0].name == axes[1].name)
+      throw UsageError("--sweep: " + axes[1].name + " swept twice (expected two different names)");
+  }
+  if (axes.size() == 2 && axes[0].values.size() * axes[1].values.size() > sim::kMaxSweepPoints)
+    throw UsageError("--sweep: too many points (got " + std::to_string(axes[0].values.size() * axes[1].values.size()) +
+                     ", expected at most " + std::to_string(sim::kMaxSweepPoints) + " over both axes)");
+  (void)lp;
+  sim::SimOptions so;
+  so.stop_at_coverage = o.stop_at_coverage;
+  so.accept_extrapolation = o.accept_extrapolation;
+  Progress progress("points");
+  const sim::SweepResult s = sim::run_sweep(m, axes, so, o.threads, std::ref(progress));
+  const std::string html = o.report.html_file.empty() ? "" : report::sweep_html(m, s, overrides);
+  if (!o.json_file.empty()) io::write_output(o.json_file, report::sweep_json(m, s, overrides).dump(2) + "\n");
+  if (!o.report.html_file.empty()) io::write_output(o.report.html_file, html);
+  if (print && o.report.format == "json") io::write_output("-", report::sweep_json(m, s, overrides).dump(2) + "\n");
+  if (print && o.report.format == "csv") io::write_output("-", report::sweep_csv(s));
+  if (print && o.report.format == "text") io::write_output("-", printable(report::sweep_text(m, s, overrides), true));
+  return kExitOk;
+}
 
 int run_fly(const FlyOptions& o) {
   const bool print = print_format(o.report, {{"--json", &o.json_file}, {"--trace", &o.trace_file}}, o.quiet);
-  const io::LoadedProfile lp = io::load_profile_file(o.profile, o.pack);
+  io::LoadedProfile lp = io::load_profile_file(o.profile, o.pack);
+  const std::vector<sim::Override> overrides = apply_what_if(lp.mission, o.what_if);
+  if (!o.sweeps.empty()) {
+    if (!o.trace_file.empty()) throw UsageError("--trace: not with --sweep (a sweep keeps no trace)");
+    return run_sweep(o, lp, lp.mission, overrides, print);
+  }
   sim::SimOptions so;
   so.sample_s = o.trace_file.empty() && o.report.html_file.empty() ? 0.0 : o.sample_s;
   so.stop_at_coverage = o.stop_at_coverage;
@@ -48,14 +91,19 @@ int run_fly(const FlyOptions& o) {
   home_opts.sim = so;  // the same rules as the flight: --stop-at-coverage, --accept-extrapolation
   const sim::TurnHome home = sim::solve_turn_home(lp.mission, home_opts);
   // Every output is made before the first is written.
-  const std::string html = o.report.html_file.empty() ? "" : report::fly_html(lp.mission, r, spare, &home);
+  const std::string html = o.report.html_file.empty() ? "" : report::fly_html(lp.mission, r, spare, &home, report::overrides_html(overrides));
+  auto json_text = [&] {
+    nlohmann::json j = report::fly_json(lp.mission, r, spare, &home);
+    if (!overrides.empty()) j["overrides"] = report::overrides_json(overrides);
+    return j.dump(2) + "\n";
+  };
   if (!o.json_file.empty())
-    io::write_output(o.json_file, report::fly_json(lp.mission, r, spare, &home).dump(2) + "\n");
+    io::write_output(o.json_file, json_text());
   if (!o.trace_file.empty()) io::write_output(o.trace_file, report::fly_trace_csv(r, &home));
   if (!o.report.html_file.empty()) io::write_output(o.report.html_file, html);
-  if (print && o.report.format == "json") io::write_output("-", report::fly_json(lp.mission, r, spare, &home).dump(2) + "\n");
+  if (print && o.report.format == "json") io::write_output("-", json_text());
   if (print && o.report.format == "csv") io::write_output("-", report::fly_phases_csv(lp.mission, r));
-  if (print && o.report.format == "text") io::write_output("-", printable(report::fly_text(lp.mission, r, spare, &home), true));
+  if (print && o.report.format == "text") io::write_output("-", printable(report::fly_text(lp.mission, r, spare, &home) + (overrides.empty() ? "" : "\n" + report::overrides_text(overrides)), true));
   return r.go ? kExitOk : kExitNoGo;
 }
 
@@ -72,6 +120,13 @@ void add_fly_command(CLI::App& app, int& exit_code) {
   c->add_option("--sample-s", o->sample_s, "trace spacing, s, for --trace and --html (default 1)")->check(number_in(between(1e-3, 1e6, "s")));
   add_coverage_options(c, o->stop_at_coverage, o->accept_extrapolation);
   c->add_flag("--quiet,-q", o->quiet, "print nothing; the exit code tells go (0) or no-go (3)");
+  add_what_if_options(c, o->what_if, true);
+  c->add_option("--sweep", o->sweeps,
+                "fly a grid instead of one flight: NAME=FROM:TO:STEP over a what-if number (NAME the option "
+                "without its dashes, e.g. payload-kg=0:1:0.1); give it once or twice; at most 10000 points")
+      ->expected(1)->multi_option_policy(CLI::MultiOptionPolicy::TakeAll);
+  c->add_option("--threads", o->threads, "threads for --sweep and --samples (default: one per core)")
+      ->check(whole_in(1, 256));
   c->callback([o, &exit_code] { exit_code = run_fly(*o); });
 }
 
