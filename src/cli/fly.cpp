@@ -12,6 +12,7 @@
 #include "core/text.hpp"
 #include "io/output.hpp"
 #include "io/profile_json.hpp"
+#include "io/spreads_json.hpp"
 #include "report/html_fly.hpp"
 #include "report/mission_report.hpp"
 #include "report/result_csv.hpp"
@@ -19,6 +20,7 @@
 #include "sim/best_speeds.hpp"
 #include "sim/mission.hpp"
 #include "sim/sweep.hpp"
+#include "sim/uncertainty.hpp"
 #include "sim/turn_home.hpp"
 
 namespace sortie::cli {
@@ -34,7 +36,27 @@ struct FlyOptions {
   WhatIfOptions what_if;
   std::vector<std::string> sweeps;  ///< NAME=FROM:TO:STEP, one or two
   unsigned threads = 0;             ///< 0: one per core
+  int samples = 0;                  ///< 0: one deterministic flight
+  std::int64_t seed = 1;
+  std::string spreads_file;         ///< none: sim::Spreads's defaults
 };
+
+int run_samples(const FlyOptions& o, const sim::Mission& m, const std::vector<sim::Override>& overrides, bool print) {
+  const sim::Spreads spreads = o.spreads_file.empty() ? sim::Spreads{} : io::load_spreads_file(o.spreads_file);
+  sim::SimOptions so;
+  so.stop_at_coverage = o.stop_at_coverage;
+  so.accept_extrapolation = o.accept_extrapolation;
+  Progress progress("samples");
+  const sim::SampleRun s =
+      sim::run_samples(m, spreads, o.samples, static_cast<std::uint64_t>(o.seed), so, o.threads, std::ref(progress));
+  const std::string html = o.report.html_file.empty() ? "" : report::samples_html(m, s, overrides);
+  if (!o.json_file.empty()) io::write_output(o.json_file, report::samples_json(m, s, overrides).dump(2) + "\n");
+  if (!o.report.html_file.empty()) io::write_output(o.report.html_file, html);
+  if (print && o.report.format == "json") io::write_output("-", report::samples_json(m, s, overrides).dump(2) + "\n");
+  if (print && o.report.format == "csv") io::write_output("-", report::samples_csv(s));
+  if (print && o.report.format == "text") io::write_output("-", printable(report::samples_text(m, s, overrides), true));
+  return kExitOk;
+}
 
 int run_sweep(const FlyOptions& o, const io::LoadedProfile& lp, const sim::Mission& m,
               const std::vector<sim::Override>& overrides, bool print) {
@@ -71,6 +93,12 @@ int run_fly(const FlyOptions& o) {
   const bool print = print_format(o.report, {{"--json", &o.json_file}, {"--trace", &o.trace_file}}, o.quiet);
   io::LoadedProfile lp = io::load_profile_file(o.profile, o.pack);
   const std::vector<sim::Override> overrides = apply_what_if(lp.mission, o.what_if);
+  if (o.samples > 0) {
+    if (!o.sweeps.empty()) throw UsageError("--samples: not with --sweep (expected one or the other)");
+    if (!o.trace_file.empty()) throw UsageError("--trace: not with --samples (a sampled run keeps no trace)");
+    return run_samples(o, lp.mission, overrides, print);
+  }
+  if (!o.spreads_file.empty()) throw UsageError("--spreads: only with --samples");
   if (!o.sweeps.empty()) {
     if (!o.trace_file.empty()) throw UsageError("--trace: not with --sweep (a sweep keeps no trace)");
     return run_sweep(o, lp, lp.mission, overrides, print);
@@ -125,6 +153,14 @@ void add_fly_command(CLI::App& app, int& exit_code) {
                 "fly a grid instead of one flight: NAME=FROM:TO:STEP over a what-if number (NAME the option "
                 "without its dashes, e.g. payload-kg=0:1:0.1); give it once or twice; at most 10000 points")
       ->expected(1)->multi_option_policy(CLI::MultiOptionPolicy::TakeAll);
+  c->add_option("--samples", o->samples,
+                "fly N samples with inputs drawn from the spreads (--spreads), report P(every rule met) and "
+                "percentiles; at most 100000")
+      ->check(whole_in(1, sim::kMaxSamples));
+  c->add_option("--seed", o->seed, "seed of --samples (default 1): the same seed gives the same samples")
+      ->check(whole_in(0, 2147483647));
+  c->add_option("--spreads", o->spreads_file, "spreads of --samples (JSON; default: the documented defaults)")
+      ->check(CLI::ExistingFile);
   c->add_option("--threads", o->threads, "threads for --sweep and --samples (default: one per core)")
       ->check(whole_in(1, 256));
   c->callback([o, &exit_code] { exit_code = run_fly(*o); });

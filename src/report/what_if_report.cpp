@@ -219,3 +219,179 @@ std::string sweep_html(const sim::Mission& m, const sim::SweepResult& s, const s
 }
 
 }  // namespace sortie::report
+
+namespace sortie::report {
+
+namespace {
+
+std::string probability_line(const sim::SampleRun& s) {
+  const std::size_t n = s.points.size();
+  return "P(every reserve rule and limit met) = " + fixed(s.p_go * 100, 1) + " % (" + std::to_string(s.n_go) + " of " +
+         std::to_string(n) + " samples; standard error " + fixed(s.p_go_se * 100, 1) + " %, 95 % Wilson interval " +
+         fixed(s.wilson_lo * 100, 1) + "–" + fixed(s.wilson_hi * 100, 1) +
+         " %). This is a probability from the stated spreads, not a guarantee: inputs outside them, and the "
+         "models' own errors, are not in it.";
+}
+
+nlohmann::json pct_json(const sim::Percentiles& p) {
+  auto num = [](double v) { return std::isfinite(v) ? nlohmann::json(v) : nlohmann::json(nullptr); };
+  return {{"n", p.n}, {"p5", num(p.p5)}, {"p50", num(p.p50)}, {"p95", num(p.p95)}};
+}
+
+nlohmann::json spreads_json(const sim::Spreads& s) {
+  return {{"cell_capacity_sd", s.cell_capacity_sd},     {"cell_resistance_sd", s.cell_resistance_sd},
+          {"soh_capacity_sd", s.soh_capacity_sd},       {"soh_resistance_sd", s.soh_resistance_sd},
+          {"wind_speed_sd_mps", s.wind_speed_sd_mps},   {"wind_from_sd_deg", s.wind_from_sd_deg},
+          {"gust_max_mps", s.gust_max_mps},             {"gust_power_W_per_mps2", s.gust_power_W_per_mps2},
+          {"temperature_sd_C", s.temperature_sd_C},     {"payload_sd_kg", s.payload_sd_kg}};
+}
+
+std::string pct_row(const sim::Percentiles& p, double scale, int digits) {
+  if (p.n == 0) return "-";
+  return fixed(p.p5 * scale, digits) + " / " + fixed(p.p50 * scale, digits) + " / " + fixed(p.p95 * scale, digits);
+}
+
+}  // namespace
+
+std::string samples_text(const sim::Mission& m, const sim::SampleRun& s, const std::vector<sim::Override>& o) {
+  std::string out = "sortie fly --samples: " + printable(m.name) + "\n\n";
+  out += overrides_text(o);
+  if (!o.empty()) out += "\n";
+  out += "  " + probability_line(s) + "\n\n";
+  TextTable t({"quantity", "5th / 50th / 95th percentile", "samples"});
+  t.add_row({"flight time s", pct_row(s.flight_time_s, 1, 0), std::to_string(s.flight_time_s.n)});
+  t.add_row({"landing SoC %", pct_row(s.landing_soc, 100, 1), std::to_string(s.landing_soc.n)});
+  t.add_row({"spare time s", pct_row(s.spare_s, 1, 0), std::to_string(s.spare_s.n)});
+  out += t.render();
+  out += "\n  Rule failing most: " + (s.most_failing.empty() ? std::string("none (every sample met every rule)")
+                                                            : s.most_failing + " (in " +
+                                                                  std::to_string(s.failures.at(s.most_failing)) +
+                                                                  " samples)") + "\n";
+  out += "  Seed " + std::to_string(s.seed) + "; percentiles by Hyndman-Fan definition 7; spare time over the samples "
+         "that have one.\n";
+  if (s.clamped > 0)
+    out += "  " + std::to_string(s.clamped) + " samples had a draw outside its field's range, held at the range's end.\n";
+  out += "  " + std::string(kSafety) + "\n";
+  return out;
+}
+
+nlohmann::json samples_json(const sim::Mission& m, const sim::SampleRun& s, const std::vector<sim::Override>& o) {
+  nlohmann::json j;
+  j["schema"] = kSamplesSchema;
+  j["mission"] = m.name;
+  j["overrides"] = overrides_json(o);
+  j["spreads"] = spreads_json(s.spreads);
+  j["seed"] = s.seed;
+  j["samples"] = s.points.size();
+  j["go"] = s.n_go;
+  j["p_go"] = s.p_go;
+  j["p_go_se"] = s.p_go_se;
+  j["p_go_wilson95"] = {s.wilson_lo, s.wilson_hi};
+  j["p_go_meaning"] = "a probability from the stated spreads, not a guarantee";
+  j["flight_time_s"] = pct_json(s.flight_time_s);
+  j["landing_soc"] = pct_json(s.landing_soc);
+  j["spare_s"] = pct_json(s.spare_s);
+  j["failures"] = s.failures;
+  j["most_failing_rule"] = s.most_failing;
+  j["clamped_samples"] = s.clamped;
+  j["caution"] = kSafety;
+  return j;
+}
+
+std::string samples_csv(const sim::SampleRun& s) {
+  std::string out =
+      "sample,soh_capacity,soh_resistance,wind_mps,wind_from_deg,gust_mps,gust_W,air_C,pack_C,payload_kg,clamped,"
+      "refused,go,flight_time_s,landing_soc,spare_s,limiting_rule\n";
+  for (std::size_t i = 0; i < s.points.size(); ++i) {
+    const auto& d = s.draws[i];
+    const auto& p = s.points[i];
+    std::string cl;
+    for (const auto& c : d.clamped) cl += (cl.empty() ? "" : " ") + c;
+    out += std::to_string(i) + "," + csv_number(d.soh_capacity) + "," + csv_number(d.soh_resistance) + "," +
+           csv_number(d.wind_mps) + "," + csv_number(d.wind_from_deg) + "," + csv_number(d.gust_mps) + "," +
+           csv_number(d.gust_W) + "," + csv_number(d.air_C) + "," + csv_number(d.pack_C) + "," +
+           csv_number(d.payload_kg) + "," + csv_field(cl) + "," + (p.refused ? "true" : "false") + "," +
+           (p.go ? "true" : "false") + "," + (p.refused ? "" : csv_number(p.flight_time_s)) + "," +
+           (p.refused ? "" : csv_number(p.landing_soc)) + "," + (p.spare_s ? csv_number(*p.spare_s) : "") + "," +
+           csv_field(p.limiting_rule) + "\n";
+  }
+  return out;
+}
+
+std::string samples_html(const sim::Mission& m, const sim::SampleRun& s, const std::vector<sim::Override>& o) {
+  html::Page page("Samples: " + m.name,
+                  "sortie fly --samples · " + m.pack.layout() + " pack · " + std::to_string(s.points.size()) +
+                      " samples · seed " + std::to_string(s.seed));
+  page.add(html::verdict_banner(s.n_go == s.points.size(), probability_line(s), ""));
+  if (!o.empty()) page.section("Overrides in effect", overrides_html(o));
+  html::Table t({"quantity", "5th percentile", "median", "95th percentile", "samples"});
+  auto row = [&](const std::string& name, const std::string& key, const sim::Percentiles& p, double scale, int dig,
+                 const std::string& unit) {
+    if (p.n == 0) {
+      t.add_row({html::text_cell(name), html::text_cell("-"), html::text_cell("-"), html::text_cell("-"),
+                 html::number_cell("0")});
+      return;
+    }
+    t.add_row({html::text_cell(name), html::number_cell(fixed(p.p5 * scale, dig), key + ".p5", unit),
+               html::number_cell(fixed(p.p50 * scale, dig), key + ".p50", unit),
+               html::number_cell(fixed(p.p95 * scale, dig), key + ".p95", unit),
+               html::number_cell(std::to_string(p.n), key + ".n")});
+  };
+  row("flight time, s", "flight_time_s", s.flight_time_s, 1, 0, "");
+  row("landing charge, %", "landing_soc", s.landing_soc, 100, 1, "%");
+  row("spare time, s", "spare_s", s.spare_s, 1, 0, "");
+  page.section("Percentiles", t.render() + "<p>Rule failing most: " +
+                                  html::esc(s.most_failing.empty() ? "none" : s.most_failing) + "</p>");
+  std::vector<double> spare;
+  for (const auto& p : s.points)
+    if (p.spare_s) spare.push_back(*p.spare_s);
+  std::sort(spare.begin(), spare.end());
+  if (spare.size() >= 2) {
+    // Histogram: 20 equal bins over the range, drawn as a step line of counts.
+    const double lo = spare.front(), hi = spare.back() > lo ? spare.back() : lo + 1.0;
+    const int bins = 20;
+    std::vector<double> count(bins, 0.0);
+    for (const double v : spare) count[std::min(bins - 1, static_cast<int>((v - lo) / (hi - lo) * bins))] += 1;
+    svg::LinePlot h;
+    h.id = "spare_histogram";
+    h.title = "histogram of spare time";
+    h.x.quantity = "spare time";
+    h.x.unit = "s";
+    h.y.quantity = "samples";
+    h.y.min = 0.0;
+    svg::Line l{"samples per bin", {}, {}, "#0b6e8a"};
+    for (int b = 0; b < bins; ++b) {
+      const double x0 = lo + (hi - lo) * b / bins, x1 = lo + (hi - lo) * (b + 1) / bins;
+      l.x.insert(l.x.end(), {x0, x0, x1, x1});
+      l.y.insert(l.y.end(), {0.0, count[b], count[b], 0.0});
+    }
+    h.lines = {l};
+    h.levels.push_back({0.0, "", "#b23a48"});
+    if (lo < 0) h.bands.push_back({lo, std::min(0.0, hi), "no-go"});
+    page.add(html::figure("Spare time over the samples", svg::render(h),
+                          "Counts in 20 equal bins from the least to the most spare time. Shaded: negative spare "
+                          "(a rule fails)."));
+    svg::LinePlot c;
+    c.id = "spare_cumulative";
+    c.title = "cumulative share of samples by spare time";
+    c.x.quantity = "spare time";
+    c.x.unit = "s";
+    c.y.quantity = "share of samples at or below";
+    c.y.unit = "%";
+    c.y.min = 0.0;
+    c.y.max = 100.0;
+    svg::Line cl{"cumulative", {}, {}, "#7a4f9a"};
+    for (std::size_t i = 0; i < spare.size(); ++i) {
+      cl.x.push_back(spare[i]);
+      cl.y.push_back(100.0 * static_cast<double>(i + 1) / static_cast<double>(spare.size()));
+    }
+    c.lines = {cl};
+    if (lo < 0) c.bands.push_back({lo, std::min(0.0, hi), "no-go"});
+    page.add(html::figure("Cumulative share of samples by spare time", svg::render(c),
+                          "The height at a spare time is the share of samples with at most that much. " +
+                              probability_line(s)));
+  }
+  return page.render();
+}
+
+}  // namespace sortie::report

@@ -7,6 +7,7 @@
 
 #include "sim/mission.hpp"
 #include "sim/sweep.hpp"
+#include "sim/uncertainty.hpp"
 #include "sim/what_if.hpp"
 
 namespace sortie::report {
@@ -24,5 +25,17 @@ std::string sweep_text(const sim::Mission& m, const sim::SweepResult& s, const s
 nlohmann::json sweep_json(const sim::Mission& m, const sim::SweepResult& s, const std::vector<sim::Override>& o);
 std::string sweep_csv(const sim::SweepResult& s);
 std::string sweep_html(const sim::Mission& m, const sim::SweepResult& s, const std::vector<sim::Override>& o);
+
+inline constexpr const char* kSamplesSchema = "sortie.samples/1";
+
+/// `fly --samples`: P(every rule met) with its standard error and Wilson interval, the 5th,
+/// 50th and 95th percentiles, the rule failing most; worded as a probability from the stated
+/// spreads, not a guarantee.
+std::string samples_text(const sim::Mission& m, const sim::SampleRun& s, const std::vector<sim::Override>& o);
+nlohmann::json samples_json(const sim::Mission& m, const sim::SampleRun& s, const std::vector<sim::Override>& o);
+/// One line per sample: what was drawn and what came of it.
+std::string samples_csv(const sim::SampleRun& s);
+/// Histogram and cumulative plot of the spare time, and the summary.
+std::string samples_html(const sim::Mission& m, const sim::SampleRun& s, const std::vector<sim::Override>& o);
 
 }  // namespace sortie::report
