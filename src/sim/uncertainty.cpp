@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <random>
+#include <tuple>
 
 #include "sim/parallel.hpp"
 #include "sim/what_if.hpp"
@@ -132,6 +133,16 @@ Percentiles percentiles(std::vector<double> v) {
   return p;
 }
 
+std::pair<double, double> wilson95(std::size_t k, std::size_t n) {
+  if (n == 0) return {0.0, 1.0};
+  const double N = static_cast<double>(n);
+  const double p = static_cast<double>(k) / N;
+  const double z = 1.959963984540054, z2 = z * z;
+  const double centre = (p + z2 / (2 * N)) / (1 + z2 / N);
+  const double half = z * std::sqrt(p * (1 - p) / N + z2 / (4 * N * N)) / (1 + z2 / N);
+  return {std::max(0.0, centre - half), std::min(1.0, centre + half)};
+}
+
 SampleRun run_samples(const Mission& base, const Spreads& s, int n, std::uint64_t seed, const SimOptions& so,
                       unsigned threads, const std::function<void(std::size_t, std::size_t)>& progress) {
   SampleRun out;
@@ -163,13 +174,7 @@ SampleRun run_samples(const Mission& base, const Spreads& s, int n, std::uint64_
     const double p = static_cast<double>(out.n_go) / N;
     out.p_go = p;
     out.p_go_se = std::sqrt(p * (1.0 - p) / N);
-    // Wilson score interval (E. B. Wilson, Probable inference, the law of succession, and
-    // statistical inference, 1927): (p + z²/2n ± z·√(p(1−p)/n + z²/4n²)) / (1 + z²/n).
-    const double z = 1.959963984540054, z2 = z * z;
-    const double centre = (p + z2 / (2 * N)) / (1 + z2 / N);
-    const double half = z * std::sqrt(p * (1 - p) / N + z2 / (4 * N * N)) / (1 + z2 / N);
-    out.wilson_lo = std::max(0.0, centre - half);
-    out.wilson_hi = std::min(1.0, centre + half);
+    std::tie(out.wilson_lo, out.wilson_hi) = wilson95(out.n_go, count);
   }
   out.flight_time_s = percentiles(ft);
   out.landing_soc = percentiles(soc);

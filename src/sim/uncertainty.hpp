@@ -91,6 +91,11 @@ struct Percentiles {
 Percentiles percentiles(std::vector<double> v);
 double quantile_sorted(const std::vector<double>& sorted, double p);
 
+/// The Wilson score interval at 95 % (z = 1.959964) for k successes in n trials (E. B. Wilson,
+/// Probable inference, the law of succession, and statistical inference, 1927):
+/// (p + z²/2n ± z·√(p(1−p)/n + z²/4n²)) / (1 + z²/n).
+std::pair<double, double> wilson95(std::size_t k, std::size_t n);
+
 struct SampleRun {
   Spreads spreads;
   std::uint64_t seed = 0;

@@ -194,3 +194,69 @@ TEST_CASE("fly --sweep and what-if bad input is one line with exit 2") {
 }
 
 }  // TEST_SUITE
+
+TEST_SUITE("what_if") {
+
+TEST_CASE("fly --samples with every spread zero equals the deterministic flight") {
+  const std::string spreads = write_work_file(
+      "zero_spreads.json",
+      R"({"cell_capacity_sd": 0, "cell_resistance_sd": 0, "wind_speed_sd_mps": 0, "wind_from_sd_deg": 0, "temperature_sd_C": 0})");
+  const std::string out = work_path("samples.json");
+  const auto r = run_sortie({"fly", source_path(kQuad), "--samples", "5", "--spreads", spreads, "--json", out, "-q"});
+  REQUIRE_MESSAGE(r.exit_code == 0, r.err);
+  const json s = json::parse(read_file(out));
+  const json one = fly_json({source_path(kQuad)});
+  for (const char* q : {"p5", "p50", "p95"}) {
+    CHECK(s["flight_time_s"][q].get<double>() == one["flight_time_s"].get<double>());
+    CHECK(s["landing_soc"][q].get<double>() == one["landing"]["soc"].get<double>());
+    CHECK(s["spare_s"][q].get<double>() == one["spare_s"].get<double>());
+  }
+  CHECK(s["p_go"].get<double>() == (one["verdict"] == "go" ? 1.0 : 0.0));
+}
+
+TEST_CASE("fly --samples output bytes do not depend on the thread count and move with the seed") {
+  std::string prev;
+  for (const char* fmt : {"json", "csv"}) {
+    CAPTURE(fmt);
+    const auto one = run_sortie({"fly", source_path(kQuad), "--samples", "16", "--seed", "5", "--format", fmt,
+                                 "--threads", "1"});
+    const auto two = run_sortie({"fly", source_path(kQuad), "--samples", "16", "--seed", "5", "--format", fmt,
+                                 "--threads", "2"});
+    const auto other = run_sortie({"fly", source_path(kQuad), "--samples", "16", "--seed", "6", "--format", fmt});
+    REQUIRE_MESSAGE(one.exit_code == 0, one.err);
+    CHECK(one.out.size() > 100);
+    CHECK(one.out == two.out);
+    CHECK(one.out != other.out);
+  }
+}
+
+TEST_CASE("fly --samples bad input is one line") {
+  const std::string P = source_path(kQuad);
+  const std::string bad = write_work_file("bad_spreads.json", R"({"wind_speed_sd_mps": -1})");
+  const std::string unknown = write_work_file("unknown_spreads.json", R"({"wind_sd": 1})");
+  struct Row {
+    std::vector<std::string> args;
+    int code;
+    std::string says;
+  };
+  const std::vector<Row> rows = {
+      {{"--samples", "10", "--spreads", bad}, 1, "bad_spreads.json: /wind_speed_sd_mps: out of range (got -1"},
+      {{"--samples", "10", "--spreads", unknown}, 1, "unknown_spreads.json: /wind_sd"},
+      {{"--samples", "0"}, 2, "--samples: out of range (got 0"},
+      {{"--samples", "200000"}, 2, "--samples: out of range (got 2e+05, expected a whole number from 1 to 100000)"},
+      {{"--samples", "2", "--sweep", "soc0=0.5:1:0.5"}, 2, "--samples: not with --sweep"},
+      {{"--spreads", bad}, 2, "--spreads: only with --samples"},
+  };
+  for (const auto& row : rows) {
+    std::vector<std::string> args{"fly", P};
+    args.insert(args.end(), row.args.begin(), row.args.end());
+    CAPTURE(row.says);
+    const auto r = run_sortie(args);
+    CHECK(r.exit_code == row.code);
+    CHECK(r.out.empty());
+    CHECK(r.err.find(row.says) != std::string::npos);
+    CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+  }
+}
+
+}  // TEST_SUITE
