@@ -89,6 +89,15 @@ int run_sweep(const FlyOptions& o, const io::LoadedProfile& lp, const sim::Missi
   return kExitOk;
 }
 
+/// The report's text with the overrides in effect after its heading line.
+std::string with_overrides(std::string text, const std::vector<sim::Override>& overrides) {
+  if (overrides.empty()) return text;
+  const auto at = text.find("\n\n");
+  const std::string block = report::overrides_text(overrides);
+  if (at == std::string::npos) return text + "\n" + block;
+  return text.insert(at + 2, block + "\n");
+}
+
 int run_fly(const FlyOptions& o) {
   const bool print = print_format(o.report, {{"--json", &o.json_file}, {"--trace", &o.trace_file}}, o.quiet);
   io::LoadedProfile lp = io::load_profile_file(o.profile, o.pack);
@@ -131,7 +140,7 @@ int run_fly(const FlyOptions& o) {
   if (!o.report.html_file.empty()) io::write_output(o.report.html_file, html);
   if (print && o.report.format == "json") io::write_output("-", json_text());
   if (print && o.report.format == "csv") io::write_output("-", report::fly_phases_csv(lp.mission, r));
-  if (print && o.report.format == "text") io::write_output("-", printable(report::fly_text(lp.mission, r, spare, &home) + (overrides.empty() ? "" : "\n" + report::overrides_text(overrides)), true));
+  if (print && o.report.format == "text") io::write_output("-", printable(with_overrides(report::fly_text(lp.mission, r, spare, &home), overrides), true));
   return r.go ? kExitOk : kExitNoGo;
 }
 

@@ -229,8 +229,8 @@ std::string probability_line(const sim::SampleRun& s) {
   return "P(every reserve rule and limit met) = " + fixed(s.p_go * 100, 1) + " % (" + std::to_string(s.n_go) + " of " +
          std::to_string(n) + " samples; standard error " + fixed(s.p_go_se * 100, 1) + " %, 95 % Wilson interval " +
          fixed(s.wilson_lo * 100, 1) + "–" + fixed(s.wilson_hi * 100, 1) +
-         " %). This is a probability from the stated spreads, not a guarantee: inputs outside them, and the "
-         "models' own errors, are not in it.";
+         " %; a sample the plan cannot fly at all counts as failing, as \"refused\"). This is a probability from "
+         "the stated spreads, not a guarantee: inputs outside them, and the models' own errors, are not in it.";
 }
 
 nlohmann::json pct_json(const sim::Percentiles& p) {

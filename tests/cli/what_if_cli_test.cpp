@@ -260,3 +260,46 @@ TEST_CASE("fly --samples bad input is one line") {
 }
 
 }  // TEST_SUITE
+
+TEST_SUITE("what_if") {
+
+TEST_CASE("what-if options refuse what the profile loader refuses for the same field") {
+  // For each option, a value just past each end of its range: the option must refuse it (exit
+  // 2) and the profile edited by hand to it must be refused by the loader (exit 1).
+  struct Edit {
+    const char* option;
+    std::vector<std::string> path;  // into quad_inline()
+    double below, above;
+  };
+  const std::vector<Edit> edits = {
+      {"--payload-kg", {"airframe", "payload_kg"}, -0.001, 500.001},
+      {"--air-C", {"environment", "temperature_C"}, -60.001, 60.001},
+      {"--pack-C", {"pack", "temperature_C"}, -60.001, 100.001},
+      {"--wind-mps", {"environment", "wind", "speed_mps"}, -0.001, 60.001},
+      {"--wind-from-deg", {"environment", "wind", "from_deg"}, -0.001, 360.001},
+      {"--field-elevation-m", {"environment", "field_elevation_m"}, -500.001, 11000.001},
+      {"--soc0", {"pack", "soc0"}, -0.001, 1.001},
+      {"--soh-capacity", {"pack", "soh", "capacity"}, 0.0, 1.501},
+      {"--soh-resistance", {"pack", "soh", "resistance"}, 0.0, 20.001},
+  };
+  for (const auto& e : edits) {
+    for (const double v : {e.below, e.above}) {
+      CAPTURE(e.option);
+      CAPTURE(v);
+      char word[32];
+      std::snprintf(word, sizeof word, "%.12g", v);
+      const auto opt = run_sortie({"fly", source_path(kQuad), e.option, word, "-q"});
+      CHECK(opt.exit_code == 2);
+      json p = quad_inline();
+      json* at = &p;
+      for (const auto& k : e.path) at = &(*at)[k];
+      *at = v;
+      const auto file = write_work_file("range_edit.json", p.dump(2));
+      const auto load = run_sortie({"fly", file, "-q"});
+      CHECK(load.exit_code == 1);
+      CHECK(load.err.find("out of range") != std::string::npos);
+    }
+  }
+}
+
+}  // TEST_SUITE

@@ -45,7 +45,7 @@ TEST_CASE("Box-Muller normals have the normal distribution's quantiles within sa
   }
 }
 
-TEST_CASE("unit_uniform covers [0 1) evenly") {
+TEST_CASE("unit_uniform covers the unit interval evenly") {
   std::mt19937_64 g(99);  // seed printed: 99
   const int n = 20000;
   int below = 0;
