@@ -52,6 +52,9 @@ int run_compare(const CompareOptions& o) {
   const bool print = print_format(o.report, {{"--json", &o.json_file}}, o.quiet);
   io::LoadedProfile lp = io::load_profile_file(o.profile);
   const std::vector<sim::Override> overrides = apply_what_if(lp.mission, o.what_if);
+  // The loader's cross-checks again on the changed mission (a fixed-wing airframe on a hover, a
+  // cell whose maximum is below the reserve voltage, a wind no leg makes headway in).
+  if (!overrides.empty()) io::check_profile(lp);
   std::vector<sim::PackCandidate> cands;
   if (!o.packs.empty()) {
     for (const auto& f : o.packs) {

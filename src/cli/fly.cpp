@@ -102,6 +102,9 @@ int run_fly(const FlyOptions& o) {
   const bool print = print_format(o.report, {{"--json", &o.json_file}, {"--trace", &o.trace_file}}, o.quiet);
   io::LoadedProfile lp = io::load_profile_file(o.profile, o.pack);
   const std::vector<sim::Override> overrides = apply_what_if(lp.mission, o.what_if);
+  // The loader's cross-checks again on the changed mission (a fixed-wing airframe on a hover, a
+  // cell whose maximum is below the reserve voltage, a wind no leg makes headway in).
+  if (!overrides.empty()) io::check_profile(lp);
   if (o.samples > 0) {
     if (!o.sweeps.empty()) throw UsageError("--samples: not with --sweep (expected one or the other)");
     if (!o.trace_file.empty()) throw UsageError("--trace: not with --samples (a sampled run keeps no trace)");

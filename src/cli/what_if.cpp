@@ -67,16 +67,6 @@ std::vector<sim::Override> apply_what_if(sim::Mission& m, const WhatIfOptions& o
     out.push_back({"pack-layout", m.pack.layout(), "pack/series, pack/parallel",
                    "the same cell, wiring resistance, SoH, charge and temperature"});
   }
-  if (!o.cell.empty() || !o.pack_layout.empty()) {
-    // The loader's cross-check of the reserve voltages against the cell (io/profile_json.cpp).
-    const double vmax = m.pack.cell.v_max_V;
-    for (const auto* v : {&m.reserve.v_load_cell_min_V, &m.reserve.v_rest_cell_min_V})
-      if (*v && **v >= vmax)
-        throw InputError(std::string(o.cell.empty() ? "--pack-layout" : "--cell") +
-                         ": the profile's reserve voltage " + format_number(**v) +
-                         " V is at or above the cell's maximum (expected a cell with v_max_V above it, got " +
-                         format_number(vmax) + " V)");
-  }
   // Elevation before temperature: a given air temperature is then the field's, as in a profile.
   for (const std::string name : {"field-elevation-m"}) {
     if (const auto it = o.numbers.find(name); it != o.numbers.end()) sim::set_what_if(m, name, it->second);

@@ -303,3 +303,24 @@ TEST_CASE("what-if options refuse what the profile loader refuses for the same f
 }
 
 }  // TEST_SUITE
+
+TEST_SUITE("what_if") {
+
+TEST_CASE("what-if overrides pass the loader's cross-checks again") {
+  // A fixed-wing airframe on the quad's mission, and a wind no cruise leg makes headway in, are
+  // refused as the same profile edited by hand is (exit 1, the phase's pointer).
+  const auto fw = run_sortie({"fly", source_path(kQuad), "--airframe",
+                              source_path("models/airframes/demo-fixed-wing-mapper.json")});
+  CHECK(fw.exit_code == 1);
+  CHECK(fw.err.find("/phases/0/airspeed_mps: a fixed-wing climb or descent needs its airspeed") != std::string::npos);
+  json edited = quad_inline();
+  edited["environment"]["wind"]["speed_mps"] = 9;
+  const auto by_hand = run_sortie({"fly", write_work_file("windy.json", edited.dump(2))});
+  const auto by_option = run_sortie({"fly", source_path(kQuad), "--wind-mps", "9"});
+  CHECK(by_hand.exit_code == 1);
+  CHECK(by_option.exit_code == 1);
+  const auto tail = [](const std::string& e) { return e.substr(e.find("/phases/")); };
+  CHECK(tail(by_option.err) == tail(by_hand.err));
+}
+
+}  // TEST_SUITE
