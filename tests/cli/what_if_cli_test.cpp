@@ -6,6 +6,8 @@
 #include <nlohmann/json.hpp>
 
 #include "support/cli.hpp"
+#include "support/report_keys.hpp"
+#include "support/xml_check.hpp"
 
 using namespace sortie::test;
 using nlohmann::json;
@@ -321,6 +323,31 @@ TEST_CASE("what-if overrides pass the loader's cross-checks again") {
   CHECK(by_option.exit_code == 1);
   const auto tail = [](const std::string& e) { return e.substr(e.find("/phases/")); };
   CHECK(tail(by_option.err) == tail(by_hand.err));
+}
+
+}  // TEST_SUITE
+
+TEST_SUITE("what_if") {
+
+TEST_CASE("sweep and sample pages are XML-clean and print the JSON's numbers digit for digit") {
+  for (const std::vector<std::string> mode :
+       {std::vector<std::string>{"--sweep", "payload-kg=0:1.2:0.3"},
+        std::vector<std::string>{"--sweep", "payload-kg=0:1:0.5", "--sweep", "soh-capacity=0.8:1:0.1"},
+        std::vector<std::string>{"--samples", "20", "--seed", "3"}}) {
+    CAPTURE(mode[1]);
+    const std::string html = work_path("plan.html"), js = work_path("plan.json");
+    std::vector<std::string> args{"fly", source_path(kQuad), "--payload-kg", "0.2", "--html", html, "--json", js, "-q"};
+    if (mode[0] == "--sweep" && mode[1].rfind("payload", 0) == 0) args.erase(args.begin() + 2, args.begin() + 4);
+    args.insert(args.end(), mode.begin(), mode.end());
+    const auto r = run_sortie(args);
+    REQUIRE_MESSAGE(r.exit_code == 0, r.err);
+    const auto doc = check_xml(read_file(html));
+    REQUIRE_MESSAGE(doc.ok, doc.error);
+    const auto keys = check_keys(doc, json::parse(read_file(js)));
+    CHECK(keys.checked > 3);
+    for (const auto& p : keys.problems) FAIL_CHECK(p);
+    if (mode[0] == "--samples") CHECK(read_file(html).find("not a guarantee") != std::string::npos);
+  }
 }
 
 }  // TEST_SUITE
