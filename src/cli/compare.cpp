@@ -9,6 +9,7 @@
 #include "cli/number_option.hpp"
 #include "cli/coverage_options.hpp"
 #include "cli/report_output.hpp"
+#include "cli/what_if.hpp"
 #include "core/error.hpp"
 #include "core/text.hpp"
 #include "io/battery_json.hpp"
@@ -17,6 +18,7 @@
 #include "report/compare_report.hpp"
 #include "report/html_compare.hpp"
 #include "report/result_csv.hpp"
+#include "report/what_if_report.hpp"
 #include "sim/compare.hpp"
 
 namespace sortie::cli {
@@ -31,6 +33,7 @@ struct CompareOptions {
   bool quiet = false;
   bool stop_at_coverage = false, accept_extrapolation = false;
   ReportOutput report;
+  WhatIfOptions what_if;  ///< the mission's what-if numbers and files (the packs come from --pack or the grid)
 };
 
 /// A progress bar on stderr, only when stderr is a terminal.
@@ -47,7 +50,11 @@ void progress_bar(std::size_t done, std::size_t total) {
 
 int run_compare(const CompareOptions& o) {
   const bool print = print_format(o.report, {{"--json", &o.json_file}}, o.quiet);
-  const io::LoadedProfile lp = io::load_profile_file(o.profile);
+  io::LoadedProfile lp = io::load_profile_file(o.profile);
+  const std::vector<sim::Override> overrides = apply_what_if(lp.mission, o.what_if);
+  // The loader's cross-checks again on the changed mission (a fixed-wing airframe on a hover, a
+  // cell whose maximum is below the reserve voltage, a wind no leg makes headway in).
+  if (!overrides.empty()) io::check_profile(lp);
   std::vector<sim::PackCandidate> cands;
   if (!o.packs.empty()) {
     for (const auto& f : o.packs) {
@@ -62,12 +69,22 @@ int run_compare(const CompareOptions& o) {
   so.stop_at_coverage = o.stop_at_coverage;
   so.accept_extrapolation = o.accept_extrapolation;
   const auto rows = sim::compare_packs(lp.mission, cands, progress_bar, so);
-  const std::string html = o.report.html_file.empty() ? "" : report::compare_html(lp.mission, rows);
-  if (!o.json_file.empty()) io::write_output(o.json_file, report::compare_json(lp.mission, rows).dump(2) + "\n");
+  std::string html = o.report.html_file.empty() ? "" : report::compare_html(lp.mission, rows);
+  // The overrides in effect: a key of the JSON, lines after the text, a box at the page's top.
+  if (!overrides.empty() && !html.empty())
+    if (const auto at = html.find("<main"); at != std::string::npos)
+      if (const auto end = html.find('>', at); end != std::string::npos)
+        html.insert(end + 1, "<section><h2>What-if overrides in effect</h2>" + report::overrides_html(overrides) + "</section>");
+  auto json_text = [&] {
+    nlohmann::json j = report::compare_json(lp.mission, rows);
+    if (!overrides.empty()) j["overrides"] = report::overrides_json(overrides);
+    return j.dump(2) + "\n";
+  };
+  if (!o.json_file.empty()) io::write_output(o.json_file, json_text());
   if (!o.report.html_file.empty()) io::write_output(o.report.html_file, html);
-  if (print && o.report.format == "json") io::write_output("-", report::compare_json(lp.mission, rows).dump(2) + "\n");
+  if (print && o.report.format == "json") io::write_output("-", json_text());
   if (print && o.report.format == "csv") io::write_output("-", report::compare_csv(rows));
-  if (print && o.report.format == "text") io::write_output("-", printable(report::compare_text(lp.mission, rows), true));
+  if (print && o.report.format == "text") io::write_output("-", printable(report::compare_text(lp.mission, rows) + (overrides.empty() ? "" : "\n" + report::overrides_text(overrides)), true));
   return 0;
 }
 
@@ -104,6 +121,7 @@ void add_compare_command(CLI::App& app, int& exit_code) {
   add_report_options(c, o->report, {"text", "json", "csv"});
   add_coverage_options(c, o->stop_at_coverage, o->accept_extrapolation);
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
+  add_what_if_options(c, o->what_if, false);
   c->callback([o, &exit_code] {
     if (o->packs.empty() && (o->series.empty() || o->capacity_Ah.empty()))
       throw CLI::RequiredError("--pack (repeated), or --series with --capacity-Ah");

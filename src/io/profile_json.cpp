@@ -12,6 +12,49 @@ namespace sortie::io {
 
 using flight::Phase;
 
+void check_profile(const LoadedProfile& p_) {
+  const sim::Mission& m = p_.mission;
+  // Checks that need the airframe and the phases together.
+  const bool fixed_wing = std::holds_alternative<flight::FixedWing>(m.airframe);
+  for (std::size_t i = 0; i < m.phases.size(); ++i) {
+    const Phase& p = m.phases[i];
+    const std::string ptr = p_.phase_pointers[i];
+    if (fixed_wing && p.kind == Phase::Kind::hover)
+      throw InputError(message(p_.source, ptr + "/kind", "a fixed-wing aircraft cannot hover", "\"hover\"",
+                               "loiter with an airspeed_mps"));
+    if (!fixed_wing && (p.bank_deg > 0.0 || p.turn_radius_m))
+      throw InputError(message(p_.source, ptr + (p.turn_radius_m ? "/turn_radius_m" : "/bank_deg"),
+                               "a banked turn is modelled for a fixed wing only (a multirotor turns without banking "
+                               "its thrust into the lift)",
+                               p.turn_radius_m ? format_number(*p.turn_radius_m) + " m" : format_number(p.bank_deg) + " deg",
+                               "no turn on a multirotor phase"));
+    if (!fixed_wing && p.drag_device)
+      throw InputError(message(p_.source, ptr + "/drag_device", "a drag device is modelled for a fixed wing only",
+                               "true", "false or absent"));
+    if (fixed_wing && (p.kind == Phase::Kind::climb || p.kind == Phase::Kind::descend) && p.airspeed_mps <= 0.0)
+      throw InputError(message(p_.source, ptr + "/airspeed_mps",
+                               "a fixed-wing climb or descent needs its airspeed along the path", "none",
+                               "airspeed_mps > 0 m/s"));
+  }
+  if (m.reserve.v_load_cell_min_V && *m.reserve.v_load_cell_min_V >= m.pack.cell.v_max_V)
+    throw InputError(message(p_.source, "/reserve/v_load_cell_min_V", "reserve voltage at or above the cell's maximum",
+                             format_number(*m.reserve.v_load_cell_min_V) + " V",
+                             "below " + format_number(m.pack.cell.v_max_V) + " V"));
+  if (m.reserve.v_rest_cell_min_V && *m.reserve.v_rest_cell_min_V >= m.pack.cell.v_max_V)
+    throw InputError(message(p_.source, "/reserve/v_rest_cell_min_V", "reserve voltage at or above the cell's maximum",
+                             format_number(*m.reserve.v_rest_cell_min_V) + " V",
+                             "below " + format_number(m.pack.cell.v_max_V) + " V"));
+  for (std::size_t i = 0; i < m.phases.size(); ++i) {
+    const Phase& p = m.phases[i];
+    if (p.kind != Phase::Kind::cruise || p.duration_s) continue;
+    if (!sim::planned_duration_s(m, i)) {
+      const auto leg = flight::solve_leg(m.environment.wind, p.track_deg, sim::phase_airspeed_mps(m, i));
+      throw InputError(message(p_.source, p_.phase_pointers[i] + "/airspeed_mps", leg.detail,
+                               format_number(p.airspeed_mps) + " m/s", "an airspeed that makes headway in this wind"));
+    }
+  }
+}
+
 namespace {
 
 /// The profile object at the root of `r`; `default_name` names the mission when "name" is absent.
@@ -49,45 +92,7 @@ LoadedProfile read_profile(ObjectReader& r, const std::string& default_name,
   }
   r.finish();
 
-  // Checks that need the airframe and the phases together.
-  const bool fixed_wing = std::holds_alternative<flight::FixedWing>(m.airframe);
-  for (std::size_t i = 0; i < m.phases.size(); ++i) {
-    const Phase& p = m.phases[i];
-    const std::string ptr = out.phase_pointers[i];
-    if (fixed_wing && p.kind == Phase::Kind::hover)
-      throw InputError(message(out.source, ptr + "/kind", "a fixed-wing aircraft cannot hover", "\"hover\"",
-                               "loiter with an airspeed_mps"));
-    if (!fixed_wing && (p.bank_deg > 0.0 || p.turn_radius_m))
-      throw InputError(message(out.source, ptr + (p.turn_radius_m ? "/turn_radius_m" : "/bank_deg"),
-                               "a banked turn is modelled for a fixed wing only (a multirotor turns without banking "
-                               "its thrust into the lift)",
-                               p.turn_radius_m ? format_number(*p.turn_radius_m) + " m" : format_number(p.bank_deg) + " deg",
-                               "no turn on a multirotor phase"));
-    if (!fixed_wing && p.drag_device)
-      throw InputError(message(out.source, ptr + "/drag_device", "a drag device is modelled for a fixed wing only",
-                               "true", "false or absent"));
-    if (fixed_wing && (p.kind == Phase::Kind::climb || p.kind == Phase::Kind::descend) && p.airspeed_mps <= 0.0)
-      throw InputError(message(out.source, ptr + "/airspeed_mps",
-                               "a fixed-wing climb or descent needs its airspeed along the path", "none",
-                               "airspeed_mps > 0 m/s"));
-  }
-  if (m.reserve.v_load_cell_min_V && *m.reserve.v_load_cell_min_V >= m.pack.cell.v_max_V)
-    throw InputError(message(out.source, "/reserve/v_load_cell_min_V", "reserve voltage at or above the cell's maximum",
-                             format_number(*m.reserve.v_load_cell_min_V) + " V",
-                             "below " + format_number(m.pack.cell.v_max_V) + " V"));
-  if (m.reserve.v_rest_cell_min_V && *m.reserve.v_rest_cell_min_V >= m.pack.cell.v_max_V)
-    throw InputError(message(out.source, "/reserve/v_rest_cell_min_V", "reserve voltage at or above the cell's maximum",
-                             format_number(*m.reserve.v_rest_cell_min_V) + " V",
-                             "below " + format_number(m.pack.cell.v_max_V) + " V"));
-  for (std::size_t i = 0; i < m.phases.size(); ++i) {
-    const Phase& p = m.phases[i];
-    if (p.kind != Phase::Kind::cruise || p.duration_s) continue;
-    if (!sim::planned_duration_s(m, i)) {
-      const auto leg = flight::solve_leg(m.environment.wind, p.track_deg, sim::phase_airspeed_mps(m, i));
-      throw InputError(message(out.source, out.phase_pointers[i] + "/airspeed_mps", leg.detail,
-                               format_number(p.airspeed_mps) + " m/s", "an airspeed that makes headway in this wind"));
-    }
-  }
+  check_profile(out);
   return out;
 }
 

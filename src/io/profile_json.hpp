@@ -25,6 +25,12 @@ LoadedProfile load_profile_file(const std::filesystem::path& path,
 LoadedProfile parse_profile_json(const std::string& text, const Source& src,
                                  const std::filesystem::path& pack_override = {});
 
+/// The checks that need the airframe, the pack and the phases together (a fixed wing does not
+/// hover, a multirotor does not bank, reserve voltages below the cell's maximum, every cruise
+/// leg makes headway in the wind); load_profile_file runs them, and a caller that changes the
+/// mission after loading (what-if options) runs them again.
+void check_profile(const LoadedProfile& p);
+
 /// The one-line error for a phase the airframe or drive cannot fly (a simulation refusal).
 std::string refusal_message(const LoadedProfile& p, const sim::MissionResult& r);
 

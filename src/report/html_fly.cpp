@@ -357,7 +357,7 @@ std::string phases_table(const sim::Mission& m, const sim::MissionResult& r) {
 }  // namespace
 
 std::string fly_html(const sim::Mission& m, const sim::MissionResult& r, const sim::SpareResult& s,
-                     const sim::TurnHome* home) {
+                     const sim::TurnHome* home, const std::string& overrides_html) {
   html::Page page("Mission: " + m.name, "sortie fly · " + m.pack.layout() + " pack · " +
                                             std::to_string(r.phases.size()) + " phases");
   page.add(html::verdict_banner(r.go, verdict_line(m, r, s), "verdict_text"));
@@ -394,6 +394,7 @@ std::string fly_html(const sim::Mission& m, const sim::MissionResult& r, const s
                      "highest; " + fixed(r.temperature_start_C, 1) + " °C at take-off, air " + fixed(r.air_C, 1) + " °C",
                      r.temperature_max_C > battery::kCellHotC});
   page.add(html::cards(cards));
+  if (!overrides_html.empty()) page.section("What-if overrides in effect", overrides_html);
 
   page.section("Reserve rules and limits", rules_table(m, r));
   if (home) page.section("Turn home", turn_home_html(m, *home));

@@ -3,6 +3,7 @@
 /// charge, current and C-rate, cell temperature (with a thermal model), duty and efficiency over
 /// the flight (from the trace), energy per phase, the phase table, the setup and the events; the
 /// Cautions box last.
+#include <string>
 #include <iterator>
 #include <string>
 #include <vector>
@@ -27,6 +28,6 @@ inline std::vector<std::string> fly_plot_ids(bool thermal) {
 /// The whole page. `r` should carry a trace (SimOptions::sample_s > 0); without one the time
 /// plots say so and draw only the phase bands.
 std::string fly_html(const sim::Mission& m, const sim::MissionResult& r, const sim::SpareResult& s,
-                     const sim::TurnHome* home = nullptr);
+                     const sim::TurnHome* home = nullptr, const std::string& overrides_html = "");
 
 }  // namespace sortie::report
