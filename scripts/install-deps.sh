@@ -1,11 +1,15 @@
 #!/usr/bin/env bash
 # Install the Debian packages sortie needs, only those missing. Works as root, or through sudo.
 # Usage: scripts/install-deps.sh [--test]   (--test adds what the test suite needs: doctest, and
-# Debian's chromium for the headless browser check of the HTML reports, ctest -L browser)
+# Debian's chromium for the headless browser check of the HTML reports, ctest -L browser);
+# scripts/install-deps.sh --bench adds python3-scipy for bench/scipy_ratio.sh (not for the tests)
 set -euo pipefail
 pkgs=(g++ cmake make libboost-dev libeigen3-dev libcli11-dev nlohmann-json3-dev)
 if [[ "${1:-}" == "--test" ]]; then
   pkgs+=(doctest-dev chromium)
+fi
+if [[ "${1:-}" == "--bench" ]]; then
+  pkgs+=(python3-scipy)
 fi
 missing=()
 for p in "${pkgs[@]}"; do

@@ -35,9 +35,9 @@ struct Crossing {
 
 /// The exponential stepper's error estimate is that of its third-order companion, which
 /// overstates the fourth-order solution's local error by about a factor of the step; it runs at
-/// this multiple of the tolerances below. At 1e-10 × 1000 the 4S2P 300 W discharge to cutoff
-/// ends within 2e-3 s (1.1e-6 relative) of Dormand–Prince at 1e-10, with and without the thermal
-/// block (tests/sim/exp_stepper_test.cpp holds it to the reference).
+/// this multiple of the tolerances below. At 1e-10 × 100 the 4S2P 300 W discharge to cutoff ends
+/// within 4e-4 s (2.1e-7 relative) of Dormand–Prince at 1e-10, with and without the thermal block
+/// (tests/sim/exp_stepper_test.cpp holds it to 1e-6).
 inline constexpr double kExpTolFactor = 100.0;
 
 struct SegmentOptions {
