@@ -50,3 +50,50 @@ const bool reg_power = bench::add_case("discharge_300W_4S2RC", [] {
 });
 
 }  // namespace
+
+namespace {
+
+using namespace sortie;
+
+// The 4S2P pack of the demo LiPo cell (two RC pairs) at constant 300 W to its cutoff, with and
+// without the thermal block: the problem bench/scipy_reference.py solves with SciPy's RK45.
+battery::Pack pack_4s2p(bool thermal) {
+  battery::Pack p = io::load_pack_file(SORTIE_SOURCE_DIR "/models/packs/demo-4s1p-lipo-5000.json");
+  p.parallel = 2;
+  if (!thermal) p.cell.thermal.reset();
+  return p;
+}
+
+double discharge_300w(const battery::Pack& pack,
+                      sim::SegmentOptions::Method method = sim::SegmentOptions::Method::dopri5) {
+  sim::DischargeSpec spec;
+  spec.method = method;
+  spec.load = sim::DischargeSpec::Load::power;
+  spec.value = 300.0;
+  spec.cutoff_cell_V = pack.cell.v_cutoff_V;
+  spec.sample_s = 0.0;
+  return sim::discharge(pack, spec).time_to_end_s;
+}
+
+const bool reg_4s2p = bench::add_case("discharge_300W_4S2P_2RC", [] {
+  static const battery::Pack pack = pack_4s2p(true);
+  bench::keep(discharge_300w(pack));
+});
+
+const bool reg_4s2p_iso = bench::add_case("discharge_300W_4S2P_2RC_isothermal", [] {
+  static const battery::Pack pack = pack_4s2p(false);
+  bench::keep(discharge_300w(pack));
+});
+
+// The same with the exponential stepper (sim/exp_stepper.hpp).
+const bool reg_4s2p_exp = bench::add_case("discharge_300W_4S2P_2RC_exp", [] {
+  static const battery::Pack pack = pack_4s2p(true);
+  bench::keep(discharge_300w(pack, sim::SegmentOptions::Method::exponential));
+});
+
+const bool reg_4s2p_iso_exp = bench::add_case("discharge_300W_4S2P_2RC_isothermal_exp", [] {
+  static const battery::Pack pack = pack_4s2p(false);
+  bench::keep(discharge_300w(pack, sim::SegmentOptions::Method::exponential));
+});
+
+}  // namespace

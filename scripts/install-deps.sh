@@ -2,11 +2,15 @@
 # Install the Debian packages sortie needs, only those missing. Works as root, or through sudo.
 # Usage: scripts/install-deps.sh [--test]   (--test adds what the test suite needs: doctest, and
 # Debian's chromium for the headless browser check of the HTML reports, ctest -L browser, and
-# python3-geographiclib, the independent geodesic reference the route tests compare with)
+# python3-geographiclib, the independent geodesic reference the route tests compare with);
+# scripts/install-deps.sh --bench adds python3-scipy for bench/scipy_ratio.sh (not for the tests)
 set -euo pipefail
 pkgs=(g++ cmake make libboost-dev libeigen3-dev libcli11-dev nlohmann-json3-dev libgeographiclib-dev)
 if [[ "${1:-}" == "--test" ]]; then
   pkgs+=(doctest-dev chromium python3-geographiclib)
+fi
+if [[ "${1:-}" == "--bench" ]]; then
+  pkgs+=(python3-scipy)
 fi
 missing=()
 for p in "${pkgs[@]}"; do

@@ -86,6 +86,9 @@ DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec) 
   SegmentOptions opts;
   opts.sample_s = spec.sample_s;
   opts.next_sample_t = t;
+  opts.method = spec.method;
+  opts.abs_tol = spec.abs_tol;
+  opts.rel_tol = spec.rel_tol;
   // For the whole discharge, over every segment; a series gets a share per stretch (see the spec).
   opts.max_steps = spec.max_steps;
   if (spec.load == DischargeSpec::Load::series) {
@@ -123,6 +126,7 @@ DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec) 
     opts.t_end = t_end;
     SegmentResult seg = run_segment(model, demand, t, x, events, opts, hook);
     opts.steps_done += seg.steps;
+    if (spec.steps_out) *spec.steps_out += seg.steps;
     opts.samples_done += seg.samples.size();
     opts.next_sample_t = seg.next_sample_t;
     out.trace.insert(out.trace.end(), seg.samples.begin(), seg.samples.end());

@@ -38,6 +38,10 @@ struct DischargeSpec {
   /// What the run is, leading the cap messages ("discharge: load.csv").
   std::string context = "discharge";
   std::size_t max_samples = 1000000;   ///< trace samples in all (LimitError beyond)
+  /// The stepper and its tolerances (SegmentOptions).
+  SegmentOptions::Method method = SegmentOptions::Method::dopri5;
+  double abs_tol = 1e-10, rel_tol = 1e-10;
+  std::size_t* steps_out = nullptr;  ///< where to add the accepted steps taken (may be null)
 };
 
 /// pack_full: a charging load (negative current or power) brought the SoC to 1, where the

@@ -6,6 +6,7 @@
 
 #include "core/error.hpp"
 #include "core/roots.hpp"
+#include "sim/exp_stepper.hpp"
 
 namespace sortie::sim {
 
@@ -76,82 +77,95 @@ SegmentResult run_segment(const battery::PackModel& pack, const battery::Demand&
     return res;
   }
 
-  auto base = odeint::runge_kutta_dopri5<State>();
-  auto stepper = opts.max_dt_s > 0
-                     ? odeint::make_dense_output(opts.abs_tol, opts.rel_tol, opts.max_dt_s, base)
-                     : odeint::make_dense_output(opts.abs_tol, opts.rel_tol, base);
   const double span = std::isfinite(opts.t_end) ? opts.t_end - t0 : 1e4;
-  stepper.initialize(x0, t0, std::min(1.0, span / 16.0));
+  auto finish = [&] {
+    res.next_sample_t = next_sample;
+    return std::move(res);
+  };
+  auto integrate = [&](auto& stepper) -> SegmentResult {
+    stepper.initialize(x0, t0, std::min(1.0, span / 16.0));
 
-  State tmp{};
-  while (true) {
-    if (opts.steps_done + res.steps >= opts.max_steps)
-      throw LimitError(lead(opts) + ": integration stopped after " + std::to_string(opts.max_steps) +
-                       " steps at t = " + format_number(stepper.current_time()) +
-                       " s without reaching the end" +
-                       (opts.step_cap_hint.empty() ? std::string() : "; " + opts.step_cap_hint));
-    auto [ta, tb] = stepper.do_step(rhs);
-    ++res.steps;
-    if (!(tb > ta))
-      throw LimitError(lead(opts) + ": the integration cannot advance from t = " + format_number(ta) +
-                       " s (a step of " + format_number(stepper.current_time_step()) +
-                       " s is below the resolution of a time that large)");
-    auto at = [&](double t) {
-      stepper.calc_state(t, tmp);
-      return make_sample(rhs, t, tmp);
-    };
-    const bool reaches_end = tb >= opts.t_end;
-    const double t_hi = reaches_end ? opts.t_end : tb;
-    const Sample hi = reaches_end ? at(t_hi) : make_sample(rhs, tb, stepper.current_state());
-    if (!finite(hi)) {
-      // Odeint's error estimate lets a step whose trial stages overflowed through (a NaN error
-      // is never "too large"). Take the step again from its start, ten times shorter, until it
-      // stays finite; a step too short to advance the time means the model cannot be followed.
-      const double dt = (tb - ta) / 10.0;
-      if (!(ta + dt > ta))
-        throw LimitError(lead(opts) + ": the state of the pack stopped being a finite number at t = " +
-                         format_number(ta) + " s (a model value far outside what the integrator can follow)");
-      stepper.initialize(cur.x, cur.t, dt);
-      continue;
-    }
-
-    // Locate every crossing inside (ta, t_hi]; the earliest terminal one ends the segment.
-    std::optional<Crossing> first_terminal;
-    std::vector<Crossing> step_warnings;
-    std::vector<double> g_hi(events.size());
-    for (std::size_t k = 0; k < events.size(); ++k) {
-      g_hi[k] = events[k].g(hi);
-      if (!(g_prev[k] > 0.0 && g_hi[k] <= 0.0)) continue;
-      auto gk = [&](double t) { return events[k].g(at(t)); };
-      const double tc =
-          find_root(gk, ta, t_hi, g_prev[k], g_hi[k], opts.time_tol_s).value_or(t_hi);
-      // Take the upper end of the final bracket side so the reported state has crossed.
-      Crossing c{k, at(std::min(t_hi, tc))};
-      if (events[k].terminal) {
-        if (!first_terminal || c.at.t < first_terminal->at.t) first_terminal = c;
-      } else {
-        step_warnings.push_back(c);
+    State tmp{};
+    while (true) {
+      if (opts.steps_done + res.steps >= opts.max_steps)
+        throw LimitError(lead(opts) + ": integration stopped after " + std::to_string(opts.max_steps) +
+                         " steps at t = " + format_number(stepper.current_time()) +
+                         " s without reaching the end" +
+                         (opts.step_cap_hint.empty() ? std::string() : "; " + opts.step_cap_hint));
+      auto [ta, tb] = stepper.do_step(rhs);
+      ++res.steps;
+      if (!(tb > ta))
+        throw LimitError(lead(opts) + ": the integration cannot advance from t = " + format_number(ta) +
+                         " s (a step of " + format_number(stepper.current_time_step()) +
+                         " s is below the resolution of a time that large)");
+      auto at = [&](double t) {
+        stepper.calc_state(t, tmp);
+        return make_sample(rhs, t, tmp);
+      };
+      const bool reaches_end = tb >= opts.t_end;
+      const double t_hi = reaches_end ? opts.t_end : tb;
+      const Sample hi = reaches_end ? at(t_hi) : make_sample(rhs, tb, stepper.current_state());
+      if (!finite(hi)) {
+        // Odeint's error estimate lets a step whose trial stages overflowed through (a NaN error
+        // is never "too large"). Take the step again from its start, ten times shorter, until it
+        // stays finite; a step too short to advance the time means the model cannot be followed.
+        const double dt = (tb - ta) / 10.0;
+        if (!(ta + dt > ta))
+          throw LimitError(lead(opts) + ": the state of the pack stopped being a finite number at t = " +
+                           format_number(ta) + " s (a model value far outside what the integrator can follow)");
+        stepper.initialize(cur.x, cur.t, dt);
+        continue;
       }
+
+      // Locate every crossing inside (ta, t_hi]; the earliest terminal one ends the segment.
+      std::optional<Crossing> first_terminal;
+      std::vector<Crossing> step_warnings;
+      std::vector<double> g_hi(events.size());
+      for (std::size_t k = 0; k < events.size(); ++k) {
+        g_hi[k] = events[k].g(hi);
+        if (!(g_prev[k] > 0.0 && g_hi[k] <= 0.0)) continue;
+        auto gk = [&](double t) { return events[k].g(at(t)); };
+        const double tc =
+            find_root(gk, ta, t_hi, g_prev[k], g_hi[k], opts.time_tol_s).value_or(t_hi);
+        // Take the upper end of the final bracket side so the reported state has crossed.
+        Crossing c{k, at(std::min(t_hi, tc))};
+        if (events[k].terminal) {
+          if (!first_terminal || c.at.t < first_terminal->at.t) first_terminal = c;
+        } else {
+          step_warnings.push_back(c);
+        }
+      }
+      const double t_stop = first_terminal ? first_terminal->at.t : t_hi;
+      if (hook) hook(ta, t_stop, at);
+      emit_samples_until(t_stop, at, !first_terminal && !reaches_end);
+      std::sort(step_warnings.begin(), step_warnings.end(),
+                [](const Crossing& a, const Crossing& b) { return a.at.t < b.at.t; });
+      for (auto& w : step_warnings)
+        if (w.at.t <= t_stop) res.warnings.push_back(w);
+      if (first_terminal) {
+        res.end = first_terminal->at;
+        res.stopped = first_terminal->event;
+        return finish();
+      }
+      if (reaches_end) {
+        res.end = hi;
+        return finish();
+      }
+      g_prev = g_hi;
+      cur = hi;
     }
-    const double t_stop = first_terminal ? first_terminal->at.t : t_hi;
-    if (hook) hook(ta, t_stop, at);
-    emit_samples_until(t_stop, at, !first_terminal && !reaches_end);
-    std::sort(step_warnings.begin(), step_warnings.end(),
-              [](const Crossing& a, const Crossing& b) { return a.at.t < b.at.t; });
-    for (auto& w : step_warnings)
-      if (w.at.t <= t_stop) res.warnings.push_back(w);
-    if (first_terminal) {
-      res.end = first_terminal->at;
-      res.stopped = first_terminal->event;
-      return res;
-    }
-    if (reaches_end) {
-      res.end = hi;
-      return res;
-    }
-    g_prev = g_hi;
-    cur = hi;
+  };
+  if (opts.method == SegmentOptions::Method::exponential) {
+    ExpStepper stepper(kExpTolFactor * opts.abs_tol, kExpTolFactor * opts.rel_tol, opts.max_dt_s);
+    return integrate(stepper);
   }
+  auto base = odeint::runge_kutta_dopri5<State>();
+  if (opts.max_dt_s > 0) {
+    auto stepper = odeint::make_dense_output(opts.abs_tol, opts.rel_tol, opts.max_dt_s, base);
+    return integrate(stepper);
+  }
+  auto stepper = odeint::make_dense_output(opts.abs_tol, opts.rel_tol, base);
+  return integrate(stepper);
 }
 
 }  // namespace sortie::sim
