@@ -2,6 +2,7 @@
 #include <unistd.h>
 
 #include <cstdio>
+#include <optional>
 #include <iostream>
 #include <type_traits>
 
@@ -34,6 +35,8 @@ struct CompareOptions {
   bool stop_at_coverage = false, accept_extrapolation = false;
   ReportOutput report;
   WhatIfOptions what_if;  ///< the mission's what-if numbers and files (the packs come from --pack or the grid)
+  std::string rank_by = "spare";
+  std::optional<double> need_spare_s, need_landing_soc_pct, equal_energy_Wh;
 };
 
 /// A progress bar on stderr, only when stderr is a terminal.
@@ -63,20 +66,27 @@ int run_compare(const CompareOptions& o) {
     }
   } else {
     const battery::Cell cell = o.cell.empty() ? lp.mission.pack.cell : io::load_cell_file(o.cell);
-    cands = sim::pack_grid(cell, lp.mission.pack, o.series, o.capacity_Ah, o.parallel);
+    cands = o.equal_energy_Wh ? sim::equal_energy_packs(cell, lp.mission.pack, o.series, *o.equal_energy_Wh, o.parallel)
+                              : sim::pack_grid(cell, lp.mission.pack, o.series, o.capacity_Ah, o.parallel);
   }
+  sim::RankOptions rank;
+  rank.by = o.rank_by == "lightest" ? sim::RankBy::lightest
+            : o.rank_by == "spare-per-kg" ? sim::RankBy::spare_per_kg : sim::RankBy::spare;
+  rank.need_spare_s = o.need_spare_s;
+  if (o.need_landing_soc_pct) rank.need_landing_soc = *o.need_landing_soc_pct / 100.0;
   sim::SimOptions so;
   so.stop_at_coverage = o.stop_at_coverage;
   so.accept_extrapolation = o.accept_extrapolation;
-  const auto rows = sim::compare_packs(lp.mission, cands, progress_bar, so);
-  std::string html = o.report.html_file.empty() ? "" : report::compare_html(lp.mission, rows);
+  auto rows = sim::compare_packs(lp.mission, cands, progress_bar, so);
+  sim::rank_rows(rows, rank);
+  std::string html = o.report.html_file.empty() ? "" : report::compare_html(lp.mission, rows, rank);
   // The overrides in effect: a key of the JSON, lines after the text, a box at the page's top.
   if (!overrides.empty() && !html.empty())
     if (const auto at = html.find("<main"); at != std::string::npos)
       if (const auto end = html.find('>', at); end != std::string::npos)
         html.insert(end + 1, "<section><h2>What-if overrides in effect</h2>" + report::overrides_html(overrides) + "</section>");
   auto json_text = [&] {
-    nlohmann::json j = report::compare_json(lp.mission, rows);
+    nlohmann::json j = report::compare_json(lp.mission, rows, rank);
     if (!overrides.empty()) j["overrides"] = report::overrides_json(overrides);
     return j.dump(2) + "\n";
   };
@@ -84,7 +94,7 @@ int run_compare(const CompareOptions& o) {
   if (!o.report.html_file.empty()) io::write_output(o.report.html_file, html);
   if (print && o.report.format == "json") io::write_output("-", json_text());
   if (print && o.report.format == "csv") io::write_output("-", report::compare_csv(rows));
-  if (print && o.report.format == "text") io::write_output("-", printable(report::compare_text(lp.mission, rows) + (overrides.empty() ? "" : "\n" + report::overrides_text(overrides)), true));
+  if (print && o.report.format == "text") io::write_output("-", printable(report::compare_text(lp.mission, rows, rank) + (overrides.empty() ? "" : "\n" + report::overrides_text(overrides)), true));
   return 0;
 }
 
@@ -116,15 +126,25 @@ void add_compare_command(CLI::App& app, int& exit_code) {
       ->delimiter(',')->check(whole_in(1, 1000));
   c->add_option("--cell", o->cell, "cell to build the packs from (default: the profile pack's cell)")
       ->check(CLI::ExistingFile);
-  pk->excludes(se)->excludes(ca);
+  auto* ee = c->add_option("--equal-energy-Wh", o->equal_energy_Wh,
+                           "instead of --capacity-Ah: size the cells so that every --series (and --parallel) pack holds this energy, Wh (S·P·mean OCV·Ah)")
+                 ->check(number_in(between(0.1, 1e6, "Wh")));
+  c->add_option("--rank-by", o->rank_by, "what ranks first: spare (longest spare time, the default), lightest (the lightest pack meeting --need-spare-s / --need-landing-soc-pct), spare-per-kg")
+      ->check(CLI::IsMember({"spare", "lightest", "spare-per-kg"}));
+  c->add_option("--need-spare-s", o->need_spare_s, "a pack is ranked only with at least this spare time, s")
+      ->check(number_in(between(0.0, 1e6, "s")));
+  c->add_option("--need-landing-soc-pct", o->need_landing_soc_pct, "a pack is ranked only when it lands with at least this charge, %")
+      ->check(number_in(between(0.0, 100.0, "%")));
+  pk->excludes(se)->excludes(ca)->excludes(ee);
+  ca->excludes(ee);
   c->add_option("--json", o->json_file, "write the ranked rows as JSON to FILE, or - for standard output")->check(output_path());
   add_report_options(c, o->report, {"text", "json", "csv"});
   add_coverage_options(c, o->stop_at_coverage, o->accept_extrapolation);
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
   add_what_if_options(c, o->what_if, false);
   c->callback([o, &exit_code] {
-    if (o->packs.empty() && (o->series.empty() || o->capacity_Ah.empty()))
-      throw CLI::RequiredError("--pack (repeated), or --series with --capacity-Ah");
+    if (o->packs.empty() && (o->series.empty() || (o->capacity_Ah.empty() && !o->equal_energy_Wh)))
+      throw CLI::RequiredError("--pack (repeated), or --series with --capacity-Ah or --equal-energy-Wh");
     refuse_repeats("--pack", o->packs);
     refuse_repeats("--series", o->series);
     refuse_repeats("--capacity-Ah", o->capacity_Ah);

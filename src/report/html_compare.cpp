@@ -1,5 +1,6 @@
 #include "report/html_compare.hpp"
 
+#include "report/compare_report.hpp"
 #include "report/html_page.hpp"
 #include "report/mission_report.hpp"
 #include "report/svg_plot.hpp"
@@ -50,9 +51,10 @@ std::string no_go_words(const sim::CompareRow& row) {
 
 }  // namespace
 
-std::string compare_html(const sim::Mission& base, const std::vector<sim::CompareRow>& rows) {
+std::string compare_html(const sim::Mission& base, const std::vector<sim::CompareRow>& rows,
+                         const sim::RankOptions& rank_opts) {
   html::Page page("Packs compared: " + base.name,
-                  "sortie compare · " + std::to_string(rows.size()) + " packs on one mission, ranked by spare time");
+                  "sortie compare · " + std::to_string(rows.size()) + " packs on one mission, " + rank_words(rank_opts));
   std::size_t go = 0;
   for (const auto& row : rows) go += row.result.go ? 1 : 0;
   const bool any_go = go > 0;
@@ -111,7 +113,8 @@ std::string compare_html(const sim::Mission& base, const std::vector<sim::Compar
   page.section("Packs side by side", plots);
 
   html::Table t({"rank", "pack", "verdict", "spare s", "flight time s", "landing SoC %", "pack kg", "all-up kg",
-                 "max C‑rate", "duty mean %", "ESC η mean %", "limit"});
+                 "Pareto front", "max C‑rate", "duty mean %", "ESC η mean %", "limit"});
+  int rank = 0;
   for (std::size_t i = 0; i < rows.size(); ++i) {
     const auto& row = rows[i];
     const auto& r = row.result;
@@ -121,14 +124,16 @@ std::string compare_html(const sim::Mission& base, const std::vector<sim::Compar
     };
     std::string limit = no_go_words(row);
     if (!r.go && !r.refused) limit = "NO-GO: " + failure_reasons(base, r);
+    if (limit.empty() && !row.meets) limit = "short of the requirement: " + row.short_of;
     if (limit.empty() && !row.spare.binding_rule.empty()) limit = "then " + rule_words(row.spare.binding_rule) + " binds";
-    t.add_row({r.go ? number_cell(std::to_string(i + 1), k + "rank") : number_cell("-"), text_cell(row.candidate.label),
+    t.add_row({row.meets ? number_cell(std::to_string(++rank), k + "rank") : number_cell("-"), text_cell(row.candidate.label),
                html::html_cell(r.go ? "go" : "NO-GO", false, r.go ? "pass" : "fail"),
                or_dash(has_spare(row), signed_fixed(row.spare.spare_s, 0) + " s", "spare_s"),
                number_cell(fixed(r.flight_time_s, 0) + " s", k + "flight_time_s"),
                or_dash(!r.refused, fixed(r.landing.soc * 100, 1) + " %", "landing_soc"),
                number_cell(fixed(r.pack_mass_kg, 3) + " kg", k + "pack_mass_kg"),
                number_cell(fixed(r.all_up_mass_kg, 3) + " kg", k + "all_up_mass_kg"),
+               text_cell(row.pareto ? "yes" : ""),
                or_dash(!r.refused, fixed(r.c_rate_max, 2) + " C", "c_rate_max"),
                or_dash(!r.refused, fixed(r.duty_mean * 100, 1) + " %", "duty_mean"),
                or_dash(!r.refused, fixed(r.eta_esc_mean * 100, 1) + " %", "eta_esc_mean"), text_cell(limit)},

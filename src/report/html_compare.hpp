@@ -11,6 +11,7 @@ namespace sortie::report {
 /// The plots the compare page draws, by their data-plot id, in page order.
 inline constexpr const char* kComparePlots[] = {"compare-spare", "compare-landing-soc"};
 
-std::string compare_html(const sim::Mission& base, const std::vector<sim::CompareRow>& rows);
+std::string compare_html(const sim::Mission& base, const std::vector<sim::CompareRow>& rows,
+                         const sim::RankOptions& rank = {});
 
 }  // namespace sortie::report
