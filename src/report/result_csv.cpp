@@ -66,7 +66,8 @@ std::string compare_csv(const std::vector<sim::CompareRow>& rows) {
   const auto j = compare_json(sim::Mission{}, rows);
   return rows_csv(j["rows"], {"rank", "pack", "layout", "series", "parallel", "capacity_Ah", "verdict", "refused",
                               "spare_s", "binding_rule", "flight_time_s", "landing_soc", "pack_mass_kg",
-                              "all_up_mass_kg", "c_rate_max", "duty_mean", "eta_esc_mean", "limit"});
+                              "all_up_mass_kg", "c_rate_max", "duty_mean", "eta_esc_mean", "limit", "meets_requirement",
+                              "short_of", "pareto_front", "spare_per_kg_s_per_kg"});
 }
 
 std::string drive_csv(const DriveResult& r) {
