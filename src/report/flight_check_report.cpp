@@ -1,0 +1,77 @@
+#include "report/flight_check_report.hpp"
+
+#include "report/text_table.hpp"
+
+namespace sortie::report {
+
+namespace {
+const char* kCaution =
+    "Caution: lithium packs can burn. This check compares a model with one log; it estimates, it "
+    "does not certify a pack or an aircraft. Follow local aviation rules and the manufacturer's limits.";
+const char* kStationNote =
+    "time on station left (log): the plan's end-of-station SoC, reached from the SoC read off the "
+    "landing voltage (measured voltage plus the model's overpotential, last 5 s) on the capacity "
+    "estimated as counted charge / SoC used, at the plan's mean station current";
+}  // namespace
+
+std::string flight_check_text(const std::string& log_file, const std::string& profile_file,
+                              const sim::FlightCheck& c) {
+  std::string out = "Flight check: " + log_file + " against " + profile_file + "\n\n";
+  KeyValues kv;
+  kv.add("voltage RMSE vs plan", fixed(c.v_rmse_V, 3) + " V (mean measured − planned " + fixed(c.v_bias_V, 3) +
+                                     " V, " + std::to_string(c.rows_compared) + " rows" +
+                                     (c.rows_after_plan ? ", " + std::to_string(c.rows_after_plan) + " after the plan's landing not compared" : std::string()) + ")");
+  kv.add("flight time", fixed(c.flight_time_meas_s, 1) + " s flown, " + fixed(c.flight_time_pred_s, 1) + " s planned");
+  kv.add("energy", fixed(c.energy_meas_Wh, 2) + " Wh measured, " + fixed(c.energy_pred_Wh, 2) + " Wh planned");
+  kv.add("charge", fixed(c.charge_meas_Ah, 3) + " Ah measured, " + fixed(c.charge_pred_Ah, 3) + " Ah planned");
+  kv.add("landing SoC", fixed(100 * c.soc_land_voltage, 1) + " % from the voltage, " +
+                            fixed(100 * c.soc_land_counted, 1) + " % counted on the profile pack's capacity, " +
+                            fixed(100 * c.soc_land_pred, 1) + " % planned");
+  kv.add("capacity (estimate)", fixed(c.capacity_est_Ah, 3) + " Ah");
+  kv.add("time on station left", fixed(c.reserve_meas_s, 0) + " s from the log, " + fixed(c.reserve_pred_s, 0) +
+                                     " s planned (" + (c.reserve_end.empty() ? std::string("end not computed") : "ends at " + c.reserve_end) +
+                                     "; station current " + fixed(c.station_current_A, 2) + " A, " + c.station_phase + ")");
+  kv.add("replay on logged current", "RMSE " + fixed(c.replay_rmse_V, 3) + " V, largest " + fixed(c.replay_max_V, 3) +
+                                         " V at " + fixed(c.replay_max_t_s, 1) + " s (line " + std::to_string(c.replay_max_line) + ")");
+  out += kv.render();
+  out += "\nPer phase (the plan's timeline)\n";
+  TextTable t({"phase", "start s", "end s", "energy Wh plan", "energy Wh log", "charge Ah plan", "charge Ah log", "in log"});
+  for (const auto& p : c.phases)
+    t.add_row({p.label, fixed(p.start_s, 1), fixed(p.end_s, 1), fixed(p.energy_pred_Wh, 2), fixed(p.energy_meas_Wh, 2),
+               fixed(p.charge_pred_Ah, 3), fixed(p.charge_meas_Ah, 3), p.covered ? "whole" : "part"});
+  out += t.render();
+  out += "\nNote: " + std::string(kStationNote) + ".\n" + kCaution + "\n";
+  return out;
+}
+
+nlohmann::json flight_check_json(const std::string& log_file, const std::string& profile_file,
+                                 const sim::FlightCheck& c) {
+  nlohmann::json j;
+  j["log"] = log_file;
+  j["profile"] = profile_file;
+  j["rows_compared"] = c.rows_compared;
+  j["rows_after_plan"] = c.rows_after_plan;
+  j["v_rmse_V"] = c.v_rmse_V;
+  j["v_bias_V"] = c.v_bias_V;
+  j["flight_time_s"] = {{"measured", c.flight_time_meas_s}, {"planned", c.flight_time_pred_s}};
+  j["energy_Wh"] = {{"measured", c.energy_meas_Wh}, {"planned", c.energy_pred_Wh}};
+  j["charge_Ah"] = {{"measured", c.charge_meas_Ah}, {"planned", c.charge_pred_Ah}};
+  j["landing_soc"] = {{"from_voltage", c.soc_land_voltage}, {"counted", c.soc_land_counted}, {"planned", c.soc_land_pred}};
+  j["capacity_estimate_Ah"] = c.capacity_est_Ah;
+  j["time_on_station_left_s"] = {{"from_log", c.reserve_meas_s}, {"planned", c.reserve_pred_s},
+                                 {"planned_end", c.reserve_end}, {"station_current_A", c.station_current_A},
+                                 {"station_phase", c.station_phase}, {"method", kStationNote}};
+  j["replay"] = {{"v_rmse_V", c.replay_rmse_V}, {"v_max_error_V", c.replay_max_V},
+                 {"v_max_error_t_s", c.replay_max_t_s}, {"v_max_error_line", c.replay_max_line}};
+  nlohmann::json ph = nlohmann::json::array();
+  for (const auto& p : c.phases)
+    ph.push_back({{"label", p.label}, {"start_s", p.start_s}, {"end_s", p.end_s},
+                  {"energy_Wh", {{"planned", p.energy_pred_Wh}, {"measured", p.energy_meas_Wh}}},
+                  {"charge_Ah", {{"planned", p.charge_pred_Ah}, {"measured", p.charge_meas_Ah}}},
+                  {"whole_phase_in_log", p.covered}});
+  j["phases"] = ph;
+  j["caution"] = kCaution;
+  return j;
+}
+
+}  // namespace sortie::report

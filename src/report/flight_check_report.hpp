@@ -1,0 +1,15 @@
+#pragma once
+/// The results of `sortie check`: text report and JSON.
+#include <nlohmann/json.hpp>
+#include <string>
+
+#include "sim/flight_check.hpp"
+
+namespace sortie::report {
+
+std::string flight_check_text(const std::string& log_file, const std::string& profile_file,
+                              const sim::FlightCheck& c);
+nlohmann::json flight_check_json(const std::string& log_file, const std::string& profile_file,
+                                 const sim::FlightCheck& c);
+
+}  // namespace sortie::report
