@@ -24,7 +24,6 @@ struct CheckOptions {
 
 int run_check(const CheckOptions& o) {
   const bool print = print_format(o.report, {{"--json", &o.json_file}}, o.quiet);
-  if (!o.report.html_file.empty()) throw UsageError("check: --html is not available yet (text and JSON only)");
   const auto cols = o.columns.empty() ? std::map<std::string, io::ColumnRef>{}
                                       : io::parse_column_spec(o.columns, io::flight_log_quantities());
   const io::FlightLog fl = io::read_flight_log_file(o.log, cols);
@@ -36,7 +35,9 @@ int run_check(const CheckOptions& o) {
   sim::MeasuredFlight mf{fl.time_s, fl.voltage_V, fl.current_A, fl.lines};
   const sim::FlightCheck c = sim::check_flight(lp.mission, plan, mf, o.log);
   const std::string json = report::flight_check_json(o.log, o.profile, c).dump(2) + "\n";
+  const std::string page = o.report.html_file.empty() ? "" : report::flight_check_html(o.log, o.profile, mf, c);
   if (!o.json_file.empty()) io::write_output(o.json_file, json);
+  if (!o.report.html_file.empty()) io::write_output(o.report.html_file, page);
   if (print && o.report.format == "json") io::write_output("-", json);
   if (print && o.report.format == "text")
     io::write_output("-", printable(report::flight_check_text(o.log, o.profile, c), true));

@@ -1,5 +1,7 @@
 #include "report/flight_check_report.hpp"
 
+#include "report/html_page.hpp"
+#include "report/svg_plot.hpp"
 #include "report/text_table.hpp"
 
 namespace sortie::report {
@@ -72,6 +74,69 @@ nlohmann::json flight_check_json(const std::string& log_file, const std::string&
   j["phases"] = ph;
   j["caution"] = kCaution;
   return j;
+}
+
+std::string flight_check_html(const std::string& log_file, const std::string& profile_file,
+                              const sim::MeasuredFlight& log, const sim::FlightCheck& c) {
+  using namespace html;
+  Page page("Flight check", "sortie check " + log_file + " --profile " + profile_file);
+  page.add(cards({
+      {"voltage RMSE vs plan", keyed("v_rmse_V", fixed(c.v_rmse_V, 3)) + " V",
+       "mean measured − planned " + fixed(c.v_bias_V, 3) + " V", false},
+      {"replay RMSE", keyed("replay.v_rmse_V", fixed(c.replay_rmse_V, 3)) + " V",
+       "largest " + fixed(c.replay_max_V, 3) + " V at " + fixed(c.replay_max_t_s, 1) + " s", false},
+      {"landing SoC", keyed("landing_soc.from_voltage", fixed(100 * c.soc_land_voltage, 1), "%") + " %",
+       "planned " + fixed(100 * c.soc_land_pred, 1) + " %", c.soc_land_voltage < c.soc_land_pred - 0.05},
+      {"time on station left", keyed("time_on_station_left_s.from_log", fixed(c.reserve_meas_s, 0)) + " s",
+       "planned " + fixed(c.reserve_pred_s, 0) + " s", c.reserve_meas_s < 0.9 * c.reserve_pred_s},
+  }));
+  std::vector<svg::Band> bands;
+  for (const auto& p : c.phases) bands.push_back({p.start_s, p.end_s, p.label});
+  auto plot = [&](const std::string& id, const std::string& title, const std::string& q, const std::string& unit,
+                  std::vector<svg::Line> lines) {
+    svg::LinePlot lp;
+    lp.id = id;
+    lp.title = title;
+    lp.x = {"time from take-off", "s", {}, {}, true};
+    lp.y = {q, unit, {}, {}, false};
+    lp.lines = std::move(lines);
+    lp.bands = bands;
+    lp.right_margin = true;
+    return svg::render(lp);
+  };
+  auto scaled = [](const std::vector<double>& v, double k) {
+    std::vector<double> o(v);
+    for (double& x : o) x *= k;
+    return o;
+  };
+  page.add(figure("Pack voltage: log, plan and the model replayed on the logged current",
+                  plot("voltage", "pack voltage", "pack voltage", "V",
+                       {{"log", log.time_s, log.voltage_V, "#333333", svg::Side::left, svg::Stroke::solid, 1.4, false},
+                        {"plan", log.time_s, c.pred_V, "#0b6e8a", svg::Side::left, svg::Stroke::dashed, 2.2, false},
+                        {"replay", log.time_s, c.replay_V, "#c77d0a", svg::Side::left, svg::Stroke::dotted, 2.2, false}})));
+  page.add(figure("Pack current: log and plan",
+                  plot("current", "pack current", "pack current", "A",
+                       {{"log", log.time_s, log.current_A, "#333333", svg::Side::left, svg::Stroke::solid, 1.4, false},
+                        {"plan", log.time_s, c.pred_I, "#0b6e8a", svg::Side::left, svg::Stroke::dashed, 2.2, false}})));
+  page.add(figure("State of charge: counted from the log on the profile pack's capacity, plan, replay",
+                  plot("soc", "state of charge", "state of charge", "%",
+                       {{"log (counted)", log.time_s, scaled(c.meas_soc, 100), "#333333", svg::Side::left, svg::Stroke::solid, 1.4, false},
+                        {"plan", log.time_s, scaled(c.pred_soc, 100), "#0b6e8a", svg::Side::left, svg::Stroke::dashed, 2.2, false},
+                        {"replay", log.time_s, scaled(c.replay_soc, 100), "#c77d0a", svg::Side::left, svg::Stroke::dotted, 2.2, false}})));
+  Table t({"phase", "start s", "end s", "energy Wh plan", "energy Wh log", "charge Ah plan", "charge Ah log", "in log"},
+          {false, true, true, true, true, true, true, false});
+  for (std::size_t i = 0; i < c.phases.size(); ++i) {
+    const auto& p = c.phases[i];
+    const std::string k = "phases." + std::to_string(i) + ".";
+    t.add_row({text_cell(p.label), number_cell(fixed(p.start_s, 1), k + "start_s"), number_cell(fixed(p.end_s, 1), k + "end_s"),
+               number_cell(fixed(p.energy_pred_Wh, 2), k + "energy_Wh.planned"),
+               number_cell(fixed(p.energy_meas_Wh, 2), k + "energy_Wh.measured"),
+               number_cell(fixed(p.charge_pred_Ah, 3), k + "charge_Ah.planned"),
+               number_cell(fixed(p.charge_meas_Ah, 3), k + "charge_Ah.measured"), text_cell(p.covered ? "whole" : "part")});
+  }
+  page.section("Per phase (the plan's timeline)", t.render());
+  page.section("How the time on station left is read", "<p>" + esc(std::string(kStationNote)) + ".</p>");
+  return page.render();
 }
 
 }  // namespace sortie::report

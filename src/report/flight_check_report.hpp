@@ -11,5 +11,9 @@ std::string flight_check_text(const std::string& log_file, const std::string& pr
                               const sim::FlightCheck& c);
 nlohmann::json flight_check_json(const std::string& log_file, const std::string& profile_file,
                                  const sim::FlightCheck& c);
+/// The overlay page: measured, planned and replayed voltage, current and SoC on one time axis
+/// with the plan's phases shaded; numbers marked with their JSON keys.
+std::string flight_check_html(const std::string& log_file, const std::string& profile_file,
+                              const sim::MeasuredFlight& log, const sim::FlightCheck& c);
 
 }  // namespace sortie::report

@@ -5,6 +5,8 @@
 #include <nlohmann/json.hpp>
 
 #include "support/cli.hpp"
+#include "support/report_keys.hpp"
+#include "support/xml_check.hpp"
 
 using namespace sortie::test;
 
@@ -41,6 +43,23 @@ TEST_CASE("check: the demo flight log (pack at 85 % capacity) reads a shortfall 
   CHECK(j["replay"]["v_rmse_V"].get<double>() > 0.02);
   CHECK(j["phases"].size() == 10);
   CHECK(j["caution"].get<std::string>().find("burn") != std::string::npos);
+}
+
+TEST_CASE("check: the HTML overlay is XML-clean, has the three plots with the phases, and its numbers are the JSON's") {
+  const std::string page = work_path("check.html"), json = work_path("check.json");
+  const auto r = run_sortie({"check", source_path("models/logs/demo-flight-quad-synthetic.csv"), "--profile",
+                             source_path(kProfile), "--html", page, "--json", json, "-q"});
+  REQUIRE(r.exit_code == 0);
+  const auto doc = check_xml(read_file(page));
+  REQUIRE_MESSAGE(doc.ok, doc.error);
+  CHECK(doc.count("svg") == 3);
+  const auto keys = check_keys(doc, nlohmann::json::parse(read_file(json)));
+  for (const auto& p : keys.problems) FAIL_CHECK(p);
+  CHECK(has_key(keys, "v_rmse_V"));
+  CHECK(has_key(keys, "time_on_station_left_s.from_log"));
+  CHECK(has_key(keys, "phases.9.energy_Wh.measured"));
+  const std::string text = read_file(page);
+  CHECK(text.find("station north") != std::string::npos);  // a phase band label
 }
 
 TEST_CASE("check: bad flight logs are refused with one line naming the file and the line") {
