@@ -45,7 +45,7 @@ TEST_CASE("check: the demo flight log (pack at 85 % capacity) reads a shortfall 
   CHECK(j["caution"].get<std::string>().find("burn") != std::string::npos);
 }
 
-TEST_CASE("check: the HTML overlay is XML-clean, has the three plots with the phases, and its numbers are the JSON's") {
+TEST_CASE("check: the HTML overlay is XML-clean with the three plots and the phases and its numbers are the JSON's") {
   const std::string page = work_path("check.html"), json = work_path("check.json");
   const auto r = run_sortie({"check", source_path("models/logs/demo-flight-quad-synthetic.csv"), "--profile",
                              source_path(kProfile), "--html", page, "--json", json, "-q"});
