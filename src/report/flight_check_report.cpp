@@ -1,5 +1,7 @@
 #include "report/flight_check_report.hpp"
 
+#include <cmath>
+
 #include "report/html_page.hpp"
 #include "report/svg_plot.hpp"
 #include "report/text_table.hpp"
@@ -60,7 +62,7 @@ nlohmann::json flight_check_json(const std::string& log_file, const std::string&
   j["charge_Ah"] = {{"measured", c.charge_meas_Ah}, {"planned", c.charge_pred_Ah}};
   j["landing_soc"] = {{"from_voltage", c.soc_land_voltage}, {"counted", c.soc_land_counted}, {"planned", c.soc_land_pred}};
   j["capacity_estimate_Ah"] = c.capacity_est_Ah;
-  j["time_on_station_left_s"] = {{"from_log", c.reserve_meas_s}, {"planned", c.reserve_pred_s},
+  j["time_on_station_left"] = {{"from_log_s", c.reserve_meas_s}, {"planned_s", c.reserve_pred_s},
                                  {"planned_end", c.reserve_end}, {"station_current_A", c.station_current_A},
                                  {"station_phase", c.station_phase}, {"method", kStationNote}};
   j["replay"] = {{"v_rmse_V", c.replay_rmse_V}, {"v_max_error_V", c.replay_max_V},
@@ -87,7 +89,7 @@ std::string flight_check_html(const std::string& log_file, const std::string& pr
        "largest " + fixed(c.replay_max_V, 3) + " V at " + fixed(c.replay_max_t_s, 1) + " s", false},
       {"landing SoC", keyed("landing_soc.from_voltage", fixed(100 * c.soc_land_voltage, 1), "%") + " %",
        "planned " + fixed(100 * c.soc_land_pred, 1) + " %", c.soc_land_voltage < c.soc_land_pred - 0.05},
-      {"time on station left", keyed("time_on_station_left_s.from_log", fixed(c.reserve_meas_s, 0)) + " s",
+      {"time on station left", keyed("time_on_station_left.from_log_s", fixed(c.reserve_meas_s, 0)) + " s",
        "planned " + fixed(c.reserve_pred_s, 0) + " s", c.reserve_meas_s < 0.9 * c.reserve_pred_s},
   }));
   std::vector<svg::Band> bands;
@@ -137,6 +139,21 @@ std::string flight_check_html(const std::string& log_file, const std::string& pr
   page.section("Per phase (the plan's timeline)", t.render());
   page.section("How the time on station left is read", "<p>" + esc(std::string(kStationNote)) + ".</p>");
   return page.render();
+}
+
+std::string flight_check_trace_csv(const sim::MeasuredFlight& log, const sim::FlightCheck& c) {
+  std::string out = "time_s,v_log_V,v_plan_V,v_replay_V,current_log_A,current_plan_A,soc_counted,soc_plan,soc_replay,phase\n";
+  auto num = [](double v, int d) { return std::isnan(v) ? std::string() : fixed(v, d); };
+  std::size_t ph = 0;
+  for (std::size_t k = 0; k < log.time_s.size(); ++k) {
+    const double t = log.time_s[k];
+    while (ph + 1 < c.phases.size() && t >= c.phases[ph].end_s) ++ph;
+    const bool in_plan = !c.phases.empty() && t <= c.phases.back().end_s + 1e-3;
+    out += fixed(t, 3) + "," + num(log.voltage_V[k], 4) + "," + num(c.pred_V[k], 4) + "," + num(c.replay_V[k], 4) + "," +
+           num(log.current_A[k], 4) + "," + num(c.pred_I[k], 4) + "," + num(c.meas_soc[k], 5) + "," +
+           num(c.pred_soc[k], 5) + "," + num(c.replay_soc[k], 5) + "," + (in_plan ? std::to_string(ph) : std::string()) + "\n";
+  }
+  return out;
 }
 
 }  // namespace sortie::report

@@ -38,7 +38,7 @@ TEST_CASE("check: the demo flight log (pack at 85 % capacity) reads a shortfall 
   // the plan: the RMSE is above the noise, and the landing SoC and time on station are lower.
   CHECK(j["v_rmse_V"].get<double>() > 0.02);
   CHECK(j["landing_soc"]["from_voltage"].get<double>() < j["landing_soc"]["planned"].get<double>());
-  CHECK(j["time_on_station_left_s"]["from_log"].get<double>() < j["time_on_station_left_s"]["planned"].get<double>());
+  CHECK(j["time_on_station_left"]["from_log_s"].get<double>() < j["time_on_station_left"]["planned_s"].get<double>());
   // The replay on the profile's (unworn) pack is further from the log than the noise too.
   CHECK(j["replay"]["v_rmse_V"].get<double>() > 0.02);
   CHECK(j["phases"].size() == 10);
@@ -56,7 +56,7 @@ TEST_CASE("check: the HTML overlay is XML-clean with the three plots and the pha
   const auto keys = check_keys(doc, nlohmann::json::parse(read_file(json)));
   for (const auto& p : keys.problems) FAIL_CHECK(p);
   CHECK(has_key(keys, "v_rmse_V"));
-  CHECK(has_key(keys, "time_on_station_left_s.from_log"));
+  CHECK(has_key(keys, "time_on_station_left.from_log_s"));
   CHECK(has_key(keys, "phases.9.energy_Wh.measured"));
   const std::string text = read_file(page);
   CHECK(text.find("station north") != std::string::npos);  // a phase band label
@@ -71,6 +71,20 @@ TEST_CASE("check: bad flight logs are refused with one line naming the file and 
   refused("negvolt.csv", head + "0,24.8,12\n1,-3,12\n", "line 3");
   refused("empty.csv", "# nothing\n", "no data rows");
   refused("onerow.csv", head + "0,24.8,12\n", "fewer than 2 data rows");
+}
+
+TEST_CASE("check: the trace has one row per log row and the plan's phase of each") {
+  const std::string trace = work_path("check-trace.csv");
+  const auto r = run_sortie({"check", source_path("models/logs/demo-flight-quad-synthetic.csv"), "--profile",
+                             source_path(kProfile), "--trace", trace, "-q"});
+  REQUIRE(r.exit_code == 0);
+  const std::string t = read_file(trace);
+  std::size_t rows = 0;
+  for (char ch : t) rows += ch == '\n';
+  CHECK(rows == 1 + 740);  // header and the log's 740 rows
+  CHECK(t.rfind("time_s,v_log_V,v_plan_V,v_replay_V,", 0) == 0);
+  CHECK(t.find("\n80.000,") != std::string::npos);
+  CHECK(t.substr(t.find("\n81.000,")).substr(0, t.substr(t.find("\n81.000,")).find('\n', 1)).back() == '3');  // station north
 }
 
 TEST_CASE("check: columns by number with units") {
