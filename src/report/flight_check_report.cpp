@@ -14,7 +14,7 @@ const char* kCaution =
     "does not certify a pack or an aircraft. Follow local aviation rules and the manufacturer's limits.";
 const char* kStationNote =
     "time on station left (log): the plan's end-of-station SoC, reached from the SoC read off the "
-    "landing voltage (measured voltage plus the model's overpotential, last 5 s) on the capacity "
+    "landing voltage (the replay's landing OCV moved by the mean measured − replayed voltage of the last 20 s) on the capacity "
     "estimated as counted charge / SoC used, at the plan's mean station current";
 }  // namespace
 

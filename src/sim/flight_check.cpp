@@ -135,17 +135,18 @@ FlightCheck check_flight(const Mission& m, const MissionResult& plan, const Meas
   c.replay_rmse_V = std::sqrt(sr / static_cast<double>(n));
 
   // --- landing state from the voltage, and the time on station left ---
-  // The relaxed voltage at landing is the measured landing voltage plus the model's own
-  // overpotential at that point of the replay (OCV(SoC_replay) − V_replay), averaged over the
-  // last 5 s of the log to keep measurement noise down.
-  double v_sum = 0.0, over_sum = 0.0;
+  // The relaxed voltage at landing is the model's OCV at the replay's landing SoC plus the mean
+  // of (measured − replayed) voltage over the last kWindow_s of the log: the model's
+  // overpotential is taken as right and its open-circuit voltage is moved to the log's. The
+  // window averages the measurement noise down.
+  constexpr double kWindow_s = 20.0;
+  double resid = 0.0;
   std::size_t cnt = 0;
-  for (std::size_t k = n; k-- > 0 && log.time_s[k] >= log.time_s.back() - 5.0;) {
-    v_sum += log.voltage_V[k];
-    over_sum += pm.ocv_pack(rr.soc[k]) - rr.v_terminal_V[k];
+  for (std::size_t k = n; k-- > 0 && log.time_s[k] >= log.time_s.back() - kWindow_s;) {
+    resid += log.voltage_V[k] - rr.v_terminal_V[k];
     ++cnt;
   }
-  c.soc_land_voltage = soc_from_ocv(pm, (v_sum + over_sum) / static_cast<double>(cnt));
+  c.soc_land_voltage = soc_from_ocv(pm, pm.ocv_pack(rr.soc.back()) + resid / static_cast<double>(cnt));
   const double used = soc0 - c.soc_land_voltage;
   c.capacity_est_Ah = used > 0.02 ? c.charge_meas_Ah / used : pm.capacity_C / 3600.0;
 
