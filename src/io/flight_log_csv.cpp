@@ -1,0 +1,229 @@
+#include "io/flight_log_csv.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <limits>
+#include <optional>
+
+#include "core/error.hpp"
+#include "core/text.hpp"
+#include "io/json_reader.hpp"
+
+namespace sortie::io {
+
+namespace {
+
+const double kNaN = std::numeric_limits<double>::quiet_NaN();
+
+const std::map<std::string, std::vector<std::string>>& recognised() {
+  static const std::map<std::string, std::vector<std::string>> names = {
+      {"time", {"time", "t", "elapsed", "elapsedtime", "timestamp", "flighttime"}},
+      {"voltage", {"voltage", "v", "vbat", "packvoltage", "batteryvoltage", "volt", "volts", "vterminal", "terminalvoltage"}},
+      {"current", {"current", "i", "ibat", "packcurrent", "batterycurrent", "curr", "amps"}},
+      {"height", {"height", "altitude", "alt", "relativealtitude", "agl"}},
+      {"speed", {"speed", "airspeed", "groundspeed", "gs", "ias", "tas"}},
+      {"throttle", {"throttle", "thr", "duty"}},
+      {"temp", {"temperature", "temp", "packtemperature", "batterytemperature", "tbat"}},
+  };
+  return names;
+}
+
+struct Column {
+  std::size_t index = 0;
+  std::string title;
+  std::string unit;
+};
+
+bool header_matches(const std::string& cell, const std::string& wanted) {
+  if (to_lower(cell) == to_lower(wanted)) return true;
+  const std::string n = normalise_name(wanted);
+  return !n.empty() && (normalise_name(cell) == n || split_header(cell).base == n);
+}
+
+bool required(const std::string& q) { return q == "time" || q == "voltage" || q == "current"; }
+
+std::optional<std::map<std::string, Column>> resolve(const std::vector<std::string>& header,
+                                                     const std::map<std::string, ColumnRef>& cols) {
+  std::map<std::string, Column> out;
+  for (const auto& q : flight_log_quantities()) {
+    Column c;
+    bool found = false;
+    if (auto it = cols.find(q); it != cols.end()) {
+      const ColumnRef& ref = it->second;
+      if (ref.number) {
+        c.index = *ref.number - 1;
+        c.title = "column " + std::to_string(*ref.number);
+        if (c.index < header.size()) c.unit = split_header(header[c.index]).unit;
+        found = true;
+      } else {
+        for (std::size_t i = 0; i < header.size() && !found; ++i)
+          if (header_matches(header[i], ref.name)) {
+            c.index = i;
+            c.title = "'" + header[i] + "'";
+            c.unit = split_header(header[i]).unit;
+            found = true;
+          }
+      }
+      if (found && !ref.unit.empty()) c.unit = ref.unit;
+    } else {
+      for (const auto& name : recognised().at(q)) {
+        for (std::size_t i = 0; i < header.size() && !found; ++i) {
+          const HeaderName h = split_header(header[i]);
+          if (h.base == name) {
+            c.index = i;
+            c.title = "'" + header[i] + "'";
+            c.unit = h.unit;
+            found = true;
+          }
+        }
+        if (found) break;
+      }
+    }
+    if (!found) {
+      if (required(q)) return std::nullopt;
+      continue;
+    }
+    out[q] = c;
+  }
+  return out;
+}
+
+/// SI factor for a column; height takes m, ft, km (no log quantity covers lengths).
+UnitFactor factor(const std::string& file, const std::string& q, const Column& c) {
+  std::optional<UnitFactor> f;
+  std::string accepted;
+  if (q == "height") {
+    const std::string u = to_lower(c.unit);
+    if (u.empty() || u == "m") f = UnitFactor{1.0, 0.0, "m"};
+    else if (u == "ft") f = UnitFactor{0.3048, 0.0, "m"};
+    else if (u == "km") f = UnitFactor{1000.0, 0.0, "m"};
+    accepted = "m, ft, km";
+  } else if (q == "speed") {
+    const std::string u = to_lower(c.unit);
+    if (u.empty() || u == "m/s" || u == "mps") f = UnitFactor{1.0, 0.0, "m/s"};
+    else if (u == "km/h" || u == "kmh" || u == "kph") f = UnitFactor{1.0 / 3.6, 0.0, "m/s"};
+    else if (u == "kn" || u == "kt" || u == "kts") f = UnitFactor{1852.0 / 3600.0, 0.0, "m/s"};
+    accepted = "m/s, km/h, kn";
+  } else {
+    const Quantity k = q == "time" ? Quantity::time
+                       : q == "voltage" ? Quantity::voltage
+                       : q == "current" ? Quantity::current
+                       : q == "throttle" ? Quantity::throttle
+                                         : Quantity::temperature;
+    f = c.unit.empty() ? (k == Quantity::throttle ? unit_factor(k, "%") : unit_factor(k, k == Quantity::time ? "s" : k == Quantity::voltage ? "V" : k == Quantity::current ? "A" : "C"))
+                       : unit_factor(k, c.unit);
+    accepted = accepted_units(k);
+  }
+  if (!f)
+    throw InputError(file + ": " + q + " column " + c.title + ": unit '" + c.unit +
+                     "' not accepted (expected " + accepted + ")");
+  return *f;
+}
+
+}  // namespace
+
+const std::vector<std::string>& flight_log_quantities() {
+  static const std::vector<std::string> q = {"time", "voltage", "current", "height", "speed", "throttle", "temp"};
+  return q;
+}
+
+FlightLog read_flight_log(const DelimitedFile& f, const std::map<std::string, ColumnRef>& columns) {
+  FlightLog log;
+  log.file = f.file;
+  log.comments = f.comments;
+  if (f.rows.empty()) throw InputError(f.file + ": no data rows (the file is empty)");
+  const bool decimal_comma = f.delimiter != ',';
+  std::optional<std::size_t> header_row;
+  std::map<std::string, Column> cols;
+  const bool all_numbered = columns.count("time") && columns.count("voltage") && columns.count("current") &&
+                            std::all_of(columns.begin(), columns.end(),
+                                        [](const auto& kv) { return kv.second.number.has_value(); });
+  if (all_numbered) {
+    cols = *resolve({}, columns);
+    const auto& first = f.rows.front();
+    const std::size_t ti = cols.at("time").index;
+    if (ti < first.size() && !parse_log_time(first[ti], decimal_comma)) {
+      header_row = 0;
+      cols = *resolve(first, columns);
+    }
+  } else {
+    const std::size_t scan = std::min<std::size_t>(f.rows.size(), 200);
+    for (std::size_t r = 0; r < scan && !header_row; ++r)
+      if (auto c = resolve(f.rows[r], columns)) {
+        header_row = r;
+        cols = *c;
+      }
+    if (!header_row)
+      throw InputError(f.file + ": no header line naming the time, voltage and current columns in the first " +
+                       std::to_string(std::min<std::size_t>(f.rows.size(), 200)) +
+                       " lines (expected names such as Time(s), Voltage(V), Current(A), or --columns "
+                       "time=...,voltage=...,current=...)");
+  }
+  std::map<std::string, UnitFactor> fac;
+  for (const auto& [q, c] : cols) fac[q] = factor(f.file, q, c);
+  const std::size_t first_data = header_row ? *header_row + 1 : 0;
+  auto field = [&](std::size_t r, const Column& c) -> std::string {
+    const auto& row = f.rows[r];
+    return c.index < row.size() ? row[c.index] : std::string{};
+  };
+  auto where = [&](std::size_t line) { return "line " + std::to_string(line); };
+  std::vector<double>* optional_out[] = {&log.height_m, &log.speed_mps, &log.throttle, &log.temperature_C};
+  const char* optional_q[] = {"height", "speed", "throttle", "temp"};
+  double t0 = kNaN, t_prev = kNaN;
+  for (std::size_t r = first_data; r < f.rows.size(); ++r) {
+    const std::size_t line = f.lines[r];
+    double vals[3];
+    const char* req[] = {"time", "voltage", "current"};
+    for (int k = 0; k < 3; ++k) {
+      const Column& c = cols.at(req[k]);
+      const std::string s = field(r, c);
+      const auto v = k == 0 ? parse_log_time(s, decimal_comma) : parse_log_number(s, decimal_comma);
+      if (!v)
+        throw InputError(message(Source{f.file, {}}, where(line),
+                                 std::string(req[k]) + " column " + c.title + " is not a number",
+                                 "\"" + s + "\"", k == 0 ? "a number or a clock time such as 01:02:03.5" : "a number"));
+      vals[k] = *v * fac.at(req[k]).scale + fac.at(req[k]).offset;
+    }
+    if (std::isnan(t0)) t0 = vals[0];
+    const double t = vals[0] - t0;
+    if (!std::isnan(t_prev) && !(t > t_prev))
+      throw InputError(message(Source{f.file, {}}, where(line), "time does not increase",
+                               format_number(t) + " s after " + format_number(t_prev) + " s", "a later time than the row before"));
+    if (!(vals[1] > 0.0 && vals[1] < 1000.0))
+      throw InputError(message(Source{f.file, {}}, where(line), "pack voltage out of range",
+                               format_number(vals[1]) + " V", "a voltage from 0 to 1000 V"));
+    if (!(std::abs(vals[2]) < 1e5))
+      throw InputError(message(Source{f.file, {}}, where(line), "pack current out of range",
+                               format_number(vals[2]) + " A", "a current from -100000 to 100000 A"));
+    t_prev = t;
+    log.time_s.push_back(t);
+    log.voltage_V.push_back(vals[1]);
+    log.current_A.push_back(vals[2]);
+    log.lines.push_back(line);
+    for (int k = 0; k < 4; ++k) {
+      auto it = cols.find(optional_q[k]);
+      if (it == cols.end()) continue;
+      const std::string s = field(r, it->second);
+      double v = kNaN;
+      if (!s.empty()) {
+        const auto x = parse_log_number(s, decimal_comma);
+        if (!x)
+          throw InputError(message(Source{f.file, {}}, where(line),
+                                   std::string(optional_q[k]) + " column " + it->second.title + " is not a number",
+                                   "\"" + s + "\"", "a number or an empty cell"));
+        v = *x * fac.at(optional_q[k]).scale + fac.at(optional_q[k]).offset;
+      }
+      optional_out[k]->push_back(v);
+    }
+  }
+  if (log.time_s.size() < 2)
+    throw InputError(f.file + ": fewer than 2 data rows (got " + std::to_string(log.time_s.size()) +
+                     ", expected a flight sampled at least twice)");
+  return log;
+}
+
+FlightLog read_flight_log_file(const std::filesystem::path& path, const std::map<std::string, ColumnRef>& columns) {
+  return read_flight_log(read_delimited(path), columns);
+}
+
+}  // namespace sortie::io
