@@ -330,7 +330,7 @@ TEST_CASE("what-if overrides pass the loader's cross-checks again") {
 TEST_SUITE("what_if") {
 
 TEST_CASE("sweep and sample pages are XML-clean and print the JSON's numbers digit for digit") {
-  for (const std::vector<std::string> mode :
+  for (const std::vector<std::string>& mode :
        {std::vector<std::string>{"--sweep", "payload-kg=0:1.2:0.3"},
         std::vector<std::string>{"--sweep", "payload-kg=0:1:0.5", "--sweep", "soh-capacity=0.8:1:0.1"},
         std::vector<std::string>{"--samples", "20", "--seed", "3"}}) {
