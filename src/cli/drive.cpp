@@ -7,6 +7,7 @@
 #include "cli/commands.hpp"
 #include "cli/number_option.hpp"
 #include "cli/report_output.hpp"
+#include "core/constants.hpp"
 #include "core/error.hpp"
 #include "core/text.hpp"
 #include "flight/atmosphere.hpp"
@@ -29,7 +30,7 @@ struct DriveOptions {
   double cell_V = 3.7;
   std::optional<double> thrust_N;
   bool sweep = false;
-  double sweep_from_pct = 10.0, sweep_to_pct = 100.0, sweep_step_pct = 5.0;
+  double sweep_from_pct = 10.0, sweep_to_pct = 100.0, sweep_step_pct = 10.0;
   double airspeed_mps = 0.0;
   std::optional<double> density_kg_m3, altitude_m;
   std::string bench_file, columns;
@@ -68,7 +69,7 @@ int run_drive(const DriveOptions& o) {
   report::DriveResult r;
   r.v_axial_mps = o.airspeed_mps;
   r.thrust_N = o.thrust_N;
-  r.rho_kg_m3 = 1.225;  // ISA sea level, kg/m³ (the standard's tabulated value)
+  r.rho_kg_m3 = core::kSeaLevelDensity;
   if (o.density_kg_m3) {
     r.rho_kg_m3 = *o.density_kg_m3;
     r.density_given = true;
@@ -132,7 +133,7 @@ void add_drive_command(CLI::App& app, int& exit_code) {
   c->add_option("--sweep-from-pct", o->sweep_from_pct, "first throttle of the sweep, % of the ESC's duty limit (default 10)")
       ->check(number_in(between(0.0, 100.0, "%")));
   c->add_option("--sweep-to-pct", o->sweep_to_pct, "last throttle of the sweep, % (default 100)")->check(number_in(between(0.0, 100.0, "%")));
-  c->add_option("--sweep-step-pct", o->sweep_step_pct, "throttle step of the sweep, % (default 5)")->check(number_in(between(0.01, 100.0, "%")));
+  c->add_option("--sweep-step-pct", o->sweep_step_pct, "throttle step of the sweep, % (default 10)")->check(number_in(between(0.01, 100.0, "%")));
   c->add_option("--airspeed-mps", o->airspeed_mps, "axial airspeed through the prop, m/s (default 0)")->check(number_in(between(0.0, 200.0, "m/s")));
   auto* rho = c->add_option("--density-kg-m3", o->density_kg_m3, "air density, kg/m³ (default 1.225, ISA sea level)")
                   ->check(number_in(between(0.05, 2.0, "kg/m³")));

@@ -3,14 +3,17 @@
 /// temperature, pressure and density from geopotential height, with a temperature offset.
 #include <optional>
 
+#include "core/constants.hpp"
+
 namespace sortie::flight {
 
-inline constexpr double kStandardGravity = 9.80665;  ///< g0, m/s² (standard gravity)
+using core::kStandardGravity;
 inline constexpr double kGasConstantAir = 287.05287; ///< R of dry air, J/(kg·K)
 inline constexpr double kLapseRate = 0.0065;         ///< troposphere lapse rate L, K/m
-inline constexpr double kSeaLevelTemperature = 288.15;  ///< T0, K
-inline constexpr double kSeaLevelPressure = 101325.0;   ///< p0, Pa
-inline constexpr double kCelsiusZero = 273.15;           ///< 0 °C in K
+using core::kCelsiusZero;
+using core::kSeaLevelDensity;
+using core::kSeaLevelPressure;
+using core::kSeaLevelTemperature;
 /// The troposphere model ends at the tropopause; above it temperature no longer falls.
 inline constexpr double kTropopauseHeight = 11000.0;     ///< m, geopotential
 /// The 1976 standard tabulates its first layer from −5 km; nothing on Earth's surface is below
@@ -22,7 +25,7 @@ struct AirState {
   double height_m = 0.0;        ///< geopotential height above mean sea level, m
   double temperature_K = kSeaLevelTemperature;
   double pressure_Pa = kSeaLevelPressure;
-  double density_kg_m3 = 1.225;
+  double density_kg_m3 = kSeaLevelDensity;
 };
 
 /// ISA air at geopotential height `h_m` with the temperature `isa_offset_K` above standard:

@@ -5,6 +5,7 @@
 #include <variant>
 
 #include "flight/airframe.hpp"
+#include "flight/atmosphere.hpp"
 #include "flight/fixed_wing.hpp"
 #include "flight/flight_status.hpp"
 #include "flight/multirotor.hpp"
@@ -13,7 +14,7 @@ namespace sortie::flight {
 
 struct FlightCondition {
   double mass_kg = 1.0;          ///< all-up mass (all_up_mass_kg), kg
-  double density_kg_m3 = 1.225;  ///< from Atmosphere::at
+  double density_kg_m3 = kSeaLevelDensity;  ///< from Atmosphere::at
   /// Multirotor: horizontal airspeed. Fixed wing: true airspeed along the path. m/s, ≥ 0.
   double airspeed_mps = 0.0;
   double climb_rate_mps = 0.0;   ///< vertical rate, climb positive, m/s

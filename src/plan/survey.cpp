@@ -5,12 +5,14 @@
 #include <limits>
 #include <numbers>
 
+#include "core/constants.hpp"
+
 namespace sortie::plan {
 
 namespace {
 
 constexpr double kDeg = std::numbers::pi / 180.0;
-constexpr double kG = 9.80665;  // standard gravity, m/s²
+constexpr double kG = core::kStandardGravity;
 
 double cross(const Xy& o, const Xy& a, const Xy& b) { return (a.x - o.x) * (b.y - o.y) - (a.y - o.y) * (b.x - o.x); }
 

@@ -15,12 +15,13 @@
 /// Everything is per rotor; the drive draws `rotors` times the bus power.
 #include <optional>
 
+#include "core/constants.hpp"
 #include "propulsion/drive.hpp"
 
 namespace sortie::propulsion {
 
-/// Standard gravity, m/s² (for grams-force in g/W).
-inline constexpr double kStandardGravity = 9.80665;
+/// Standard gravity, for grams-force in g/W.
+using core::kStandardGravity;
 
 enum class MotorStatus {
   ok,
@@ -43,7 +44,7 @@ const char* to_string(BusStatus s);
 struct MotorPoint {
   double thrust_N = 0.0;      ///< thrust of this rotor, N (as asked, or produced by at_duty)
   double v_axial_mps = 0.0;   ///< axial inflow speed, m/s
-  double rho_kg_m3 = 1.225;   ///< air density, kg/m³
+  double rho_kg_m3 = core::kSeaLevelDensity;  ///< air density, kg/m³
   double advance_ratio = 0.0; ///< J = V/(n·D)
   bool beyond_prop_table = false;  ///< J outside the tables' range: coefficients held at the end
   double rpm = 0.0;           ///< shaft speed, rev/min

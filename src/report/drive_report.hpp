@@ -44,7 +44,7 @@ struct BenchView {
 struct DriveResult {
   std::string drive_file;                ///< empty: bench map only
   std::optional<propulsion::Drive> drive;
-  double rho_kg_m3 = 1.225;
+  double rho_kg_m3 = core::kSeaLevelDensity;
   std::optional<double> altitude_m;      ///< when the density came from --altitude-m
   bool density_given = false;            ///< --density-kg-m3
   double v_axial_mps = 0.0;
