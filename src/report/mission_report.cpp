@@ -10,6 +10,7 @@
 #include "report/best_speeds_report.hpp"
 #include "report/discharge_report.hpp"
 #include "report/model_range_report.hpp"
+#include "report/phase_number.hpp"
 #include "report/text_table.hpp"
 
 namespace sortie::report {
@@ -261,12 +262,12 @@ nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim
   j["verdict"] = r.go ? "go" : "no-go";
   j["verdict_text"] = verdict_line(m, r, s);
   j["completed"] = r.completed;
-  if (!r.completed) j["end"] = {{"kind", r.end_kind}, {"phase", r.end_phase}, {"detail", r.end_detail}};
+  if (!r.completed) j["end"] = {{"kind", r.end_kind}, {"phase", phase_number_or_null(r.end_phase)}, {"detail", r.end_detail}};
   j["flight_time_s"] = r.flight_time_s;
   // spare_s only when it is a solved figure: null when nothing is lengthened, when the search
   // stopped at its cap (spare.at_least_s) or when no length of the phase meets the rules.
   j["spare_s"] = s.phase && s.bounded && !s.capped ? json(s.spare_s) : json();
-  j["spare"] = {{"phase", s.phase ? json(*s.phase) : json()}, {"binding_rule", s.binding_rule},
+  j["spare"] = {{"phase", phase_number_or_null(s.phase)}, {"binding_rule", s.binding_rule},
                 {"bounded", s.bounded}, {"capped", s.capped}, {"at_least_s", s.capped ? json(s.spare_s) : json()},
                 {"cut_phase_s", s.phase && !s.bounded ? json(-s.spare_s) : json()},
                 {"cut_leg", s.cut_leg ? json(*s.cut_leg) : json()}, {"cut_leg_m", s.cut_leg_m ? json(*s.cut_leg_m) : json()},
@@ -298,7 +299,7 @@ nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim
   json phases = json::array();
   for (std::size_t i = 0; i < r.phases.size(); ++i) {
     const auto& p = r.phases[i];
-    phases.push_back({{"kind", flight::to_string(p.kind)}, {"label", p.label}, {"start_s", p.start_s},
+    phases.push_back({{"phase", phase_number(i)}, {"kind", flight::to_string(p.kind)}, {"label", p.label}, {"start_s", p.start_s},
                       {"duration_s", p.duration_s}, {"planned_s", p.planned_s}, {"flown", p.flown},
                       {"distance_m", p.distance_m}, {"energy_Wh", p.energy_Wh}, {"charge_Ah", p.charge_Ah},
                       {"v_min_cell_V", p.v_min_cell_V}, {"i_max_A", p.i_max_A}, {"c_rate_max", p.c_rate_max},
@@ -310,14 +311,14 @@ nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim
   j["phases"] = phases;
   json ev = json::array();
   for (const auto& e : r.events)
-    ev.push_back({{"t_s", e.t_s}, {"kind", e.kind}, {"phase", e.phase}, {"detail", e.detail}});
+    ev.push_back({{"t_s", e.t_s}, {"kind", e.kind}, {"phase", phase_number_or_null(e.phase)}, {"detail", e.detail}});
   j["events"] = ev;
   json rules = json::array();
   for (const auto& rule : r.rules)
     rules.push_back({{"name", rule.name}, {"unit", rule.unit}, {"limit", rule.is_max ? "max" : "min"},
                      {"required", rule.required}, {"actual", rule.reached ? json(rule.actual) : json()},
                      {"margin", rule.reached ? json(rule.margin) : json()}, {"pass", rule.pass},
-                     {"reached", rule.reached}, {"t_s", rule.t_s}, {"phase", rule.phase >= 0 ? json(rule.phase) : json()},
+                     {"reached", rule.reached}, {"t_s", rule.t_s}, {"phase", phase_number_or_null(rule.phase)},
                      {"length_dependent", rule.length_dependent}, {"note", rule.note}});
   j["rules"] = rules;
   j["model_range"] = {{"coverage", coverage_json(m.pack.cell)},
@@ -330,11 +331,11 @@ nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim
     };
     json ph = json::array();
     for (const auto& tp : home->phases)
-      ph.push_back({{"phase", tp.phase}, {"latest_in_phase_s", tp.latest_in_phase_s ? json(*tp.latest_in_phase_s) : json()},
+      ph.push_back({{"phase", phase_number(tp.phase)}, {"latest_in_phase_s", tp.latest_in_phase_s ? json(*tp.latest_in_phase_s) : json()},
                     {"at", tp.at ? state(*tp.at) : json()}, {"whole_phase", tp.whole_phase},
                     {"beyond_plan", tp.beyond_plan}, {"capped", tp.capped}, {"binding_rule", tp.binding_rule}});
     j["turn_home"] = {{"point", home->point ? state(*home->point) : json()},
-                      {"phase", home->point_phase ? json(*home->point_phase) : json()},
+                      {"phase", phase_number_or_null(home->point_phase)},
                       {"binding_rule", home->binding_rule}, {"home_airspeed_mps", home->home_airspeed_mps},
                       {"home_descent_mps", home->home_descent_mps}, {"phases", ph}, {"simulations", home->simulations}};
   }
@@ -349,7 +350,7 @@ std::string fly_trace_csv(const MissionResult& r, const sim::TurnHome* home) {
   for (const auto& tp : r.trace) {
     const auto& s = tp.s;
     std::snprintf(buf, sizeof buf, "%.4f,%.6g,%.6f,%.6f,%.7f,%.6g,%d,%.5f,%.5g", s.t, s.term.current_A,
-                  s.term.v_terminal_V, s.term.v_ocv_V, s.x[battery::kSoc], s.term.power_W, tp.phase, tp.duty,
+                  s.term.v_terminal_V, s.term.v_ocv_V, s.x[battery::kSoc], s.term.power_W, phase_number(tp.phase), tp.duty,
                   tp.thrust_N);
     out += buf;
     if (r.thermal) {

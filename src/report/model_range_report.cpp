@@ -1,5 +1,7 @@
 #include "report/model_range_report.hpp"
 
+#include "report/phase_number.hpp"
+
 namespace sortie::report {
 
 namespace {
@@ -26,7 +28,7 @@ nlohmann::json excursions_json(const std::vector<sim::Excursion>& xs, bool with_
                         {"extreme", e.extreme},       {"beyond", e.beyond()},
                         {"first_s", e.first_s},       {"duration_s", e.duration_s},
                         {"intervals", e.intervals},   {"at_end", e.at_end}};
-    if (with_phase) j["phase"] = e.phase;
+    if (with_phase) j["phase"] = phase_number_or_null(e.phase);
     arr.push_back(j);
   }
   return arr;
