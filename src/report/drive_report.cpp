@@ -25,7 +25,7 @@ std::string first_column(double v, int digits, std::size_t width = 5) {
   return s;
 }
 
-std::string thrust_words(double n) { return fixed(n, 2) + " N (" + fixed(grams(n), 0) + " g)"; }
+std::string thrust_words(double n) { return fixed(n, 2) + " N"; }
 
 std::string case_label(const DriveCase& c) {
   if (c.cells) return std::to_string(*c.cells) + "S";
@@ -40,20 +40,20 @@ std::string air_words(const DriveResult& r) {
   return s + ", axial airspeed " + fixed(r.v_axial_mps, 1) + " m/s";
 }
 
-const std::vector<std::string> kRowHeader = {"throttle %", "duty %",  "rpm",       "thrust N",
-                                             "thrust g",   "shaft W", "bus A",     "bus W",
-                                             "motor η %",  "ESC η %", "system η %", "g/W",
-                                             "status"};
+// In the order of the physics: the ESC's duty turns the motor, the rotor's speed makes the
+// thrust, the shaft power it takes, the bus power and current that feed it; then the
+// efficiencies along that chain and thrust per bus power.
+const std::vector<std::string> kRowHeader = {"duty %",    "rpm",       "thrust N",     "shaft W",
+                                             "bus W",     "bus A",     "motor η %",    "ESC η %",
+                                             "drive η %", "g/W",       "status"};
 
-std::vector<std::string> row_cells(const DriveRow& row, double duty_max) {
+std::vector<std::string> row_cells(const DriveRow& row) {
   const auto& m = row.op.motor;
   const auto& b = row.op.bus;
-  const double throttle = row.throttle_pct ? *row.throttle_pct : b.duty / duty_max * 100.0;
-  return {first_column(throttle, 1), pct(b.duty),           fixed(m.rpm, 0),
-          fixed(m.thrust_N, 2),   fixed(grams(m.thrust_N), 0), fixed(m.shaft_W, 1),
-          fixed(b.bus_A, 2),      fixed(b.bus_W, 1),     pct(b.eta_motor),
-          pct(b.eta_esc),         pct(b.eta_system),     fixed(b.g_per_W, 2),
-          propulsion::to_string(b.status)};
+  return {first_column(b.duty * 100.0, 1), fixed(m.rpm, 0),      fixed(m.thrust_N, 2),
+          fixed(m.shaft_W, 1),             fixed(b.bus_W, 1),    fixed(b.bus_A, 2),
+          pct(b.eta_motor),                pct(b.eta_esc),       pct(b.eta_system),
+          fixed(b.g_per_W, 2),             propulsion::to_string(b.status)};
 }
 
 // One line for each kind of trouble in a case (the first row showing it), so a sweep that runs
@@ -65,7 +65,7 @@ std::string case_notes(const propulsion::Drive& d, const DriveCase& c, bool swee
     const auto& m = row.op.motor;
     const auto& b = row.op.bus;
     const std::string where = sweep && row.throttle_pct
-                                  ? "from throttle " + fixed(*row.throttle_pct, 0) + " %: "
+                                  ? "from duty " + pct(row.op.bus.duty, 0) + " %: "
                                   : "";
     if (b.saturated && !said_sat) {
       said_sat = true;
@@ -105,8 +105,7 @@ std::string bench_text(const DriveResult& r, const BenchView& bv) {
   std::string out = "\nmeasured map: " + bv.file + ", " + std::to_string(map.rows.size()) +
                     " rows, bus " + fixed(map.v_bus_min_V, 2) + " to " + fixed(map.v_bus_max_V, 2) +
                     " V (mean " + fixed(map.v_bus_mean_V, 2) + " V), one rotor\n";
-  std::vector<std::string> header = {"throttle %", "bus V",    "bus A", "bus W",
-                                     "rpm",        "thrust N", "thrust g", "g/W"};
+  std::vector<std::string> header = {"throttle %", "rpm", "thrust N", "bus V", "bus A", "bus W", "g/W"};
   if (map.has_torque) {
     header.push_back("shaft W");
     header.push_back("system η %");
@@ -121,9 +120,8 @@ std::string bench_text(const DriveResult& r, const BenchView& bv) {
     const auto& row = map.rows[i];
     const double bus_W = row.bus_W();
     std::vector<std::string> cells = {
-        first_column(row.throttle_pct, 1), fixed(row.v_bus_V, 2), fixed(row.i_bus_A, 2), fixed(bus_W, 1),
-        fixed(row.rpm, 0), fixed(row.thrust_N, 2), fixed(grams(row.thrust_N), 0),
-        bus_W > 0.0 ? fixed(grams(row.thrust_N) / bus_W, 2) : "-"};
+        first_column(row.throttle_pct, 1), fixed(row.rpm, 0), fixed(row.thrust_N, 2), fixed(row.v_bus_V, 2),
+        fixed(row.i_bus_A, 2), fixed(bus_W, 1), bus_W > 0.0 ? fixed(grams(row.thrust_N) / bus_W, 2) : "-"};
     if (map.has_torque) {
       cells.push_back(fixed(row.shaft_W(), 1));
       cells.push_back(bus_W > 0.0 ? pct(row.shaft_W() / bus_W) : "-");
@@ -208,37 +206,19 @@ nlohmann::json point_json(const propulsion::Drive& d, const DriveCase& c, const 
   return j;
 }
 
-std::string transposed_cases(const DriveResult& r) {
-  std::vector<std::string> header = {""};
-  for (const auto& c : r.cases) header.push_back(case_label(c));
-  TextTable t(header);
-  auto line = [&](const std::string& name, auto value) {
-    std::vector<std::string> cells = {name};
-    for (const auto& c : r.cases) cells.push_back(value(c, c.rows.front().op));
-    t.add_row(std::move(cells));
-  };
-  using C = const DriveCase&;
-  using O = const OperatingPoint&;
-  line("bus V", [](C c, O) { return fixed(c.v_bus_V, 2); });
-  line("duty %", [](C, O op) { return pct(op.bus.duty); });
-  line("rpm", [](C, O op) { return fixed(op.motor.rpm, 0); });
-  line("shaft W", [](C, O op) { return fixed(op.motor.shaft_W, 1); });
-  line("motor A", [](C, O op) { return fixed(op.motor.i_motor_A, 2); });
-  line("motor V", [](C, O op) { return fixed(op.motor.v_motor_V, 2); });
-  line("ESC loss W", [](C, O op) { return fixed(op.bus.esc_loss_W, 2); });
-  line("bus A", [](C, O op) { return fixed(op.bus.bus_A, 2); });
-  line("bus W", [](C, O op) { return fixed(op.bus.bus_W, 1); });
-  line("motor η %", [](C, O op) { return pct(op.bus.eta_motor); });
-  line("ESC η %", [](C, O op) { return pct(op.bus.eta_esc); });
-  line("system η %", [](C, O op) { return pct(op.bus.eta_system); });
-  line("g/W", [](C, O op) { return fixed(op.bus.g_per_W, 2); });
-  line("available N", [](C c, O) { return fixed(c.thrust_available_N, 2); });
-  // Status as a line of its own: a text row would turn the number columns left-aligned.
-  std::string status = "  status:";
-  for (const auto& c : r.cases)
-    status += " " + case_label(c) + " " + propulsion::to_string(c.rows.front().op.bus.status) +
-              (&c == &r.cases.back() ? "" : ",");
-  return t.render() + status + "\n";
+// One row per pack (or bus voltage) at the asked thrust, the columns in the order of the physics.
+std::string cases_at_thrust(const DriveResult& r) {
+  TextTable t({"pack", "bus V", "duty %", "rpm", "shaft W", "motor A", "motor V", "ESC loss W", "bus A",
+               "bus W", "motor η %", "ESC η %", "drive η %", "g/W", "available N", "status"});
+  for (const auto& c : r.cases) {
+    const OperatingPoint& op = c.rows.front().op;
+    t.add_row({case_label(c), fixed(c.v_bus_V, 2), pct(op.bus.duty), fixed(op.motor.rpm, 0),
+               fixed(op.motor.shaft_W, 1), fixed(op.motor.i_motor_A, 2), fixed(op.motor.v_motor_V, 2),
+               fixed(op.bus.esc_loss_W, 2), fixed(op.bus.bus_A, 2), fixed(op.bus.bus_W, 1),
+               pct(op.bus.eta_motor), pct(op.bus.eta_esc), pct(op.bus.eta_system), fixed(op.bus.g_per_W, 2),
+               fixed(c.thrust_available_N, 2), propulsion::to_string(op.bus.status)});
+  }
+  return t.render();
 }
 
 }  // namespace
@@ -260,8 +240,8 @@ std::string drive_text(const DriveResult& r) {
     out += "\n";
     const bool sweep = !r.thrust_N;
     if (!sweep && r.cases.size() > 1) {
-      out += "\nat " + thrust_words(*r.thrust_N) + " per rotor, side by side\n";
-      out += transposed_cases(r);
+      out += "\nat " + thrust_words(*r.thrust_N) + " per rotor\n";
+      out += cases_at_thrust(r);
       for (const auto& c : r.cases) {
         // Each note line of this case, led by the case's label ("  3S saturated: ...").
         const std::string notes = case_notes(d, c, false);
@@ -283,7 +263,7 @@ std::string drive_text(const DriveResult& r) {
                  " available";
         out += "\n";
         TextTable t(kRowHeader);
-        for (const auto& row : c.rows) t.add_row(row_cells(row, d.esc.duty_max));
+        for (const auto& row : c.rows) t.add_row(row_cells(row));
         out += t.render();
         out += case_notes(d, c, sweep);
       }

@@ -154,7 +154,7 @@ TEST_CASE("drive --html: three efficiency plots — one curve per cell count") {
   CHECK(plot_ids(p.x) == promised(sortie::report::kDrivePlots));
   for (const char* plot : sortie::report::kDrivePlots) CHECK(curves_in(p.x, plot) == 2);
   CHECK(has_key(p.keys, "points.0.eta_system"));
-  CHECK(has_key(p.keys, "points.37.eta_esc"));  // 19 throttle steps × 2 packs
+  CHECK(has_key(p.keys, "points.19.eta_esc"));  // 10 throttle steps × 2 packs
 }
 
 TEST_CASE("discharge --html: voltage and charge — current and power") {
@@ -245,7 +245,7 @@ TEST_CASE("--format csv: fly phases — compare rows — drive points and the di
   REQUIRE(cmp.size() == 3);
   CHECK(cmp[0].rfind("rank,pack,layout,series,parallel,capacity_Ah,verdict,", 0) == 0);
   auto drv = csv({"drive", source_path(kDrive), "--sweep", "--cells", "4,6"});
-  CHECK(drv.size() == 1 + 38);
+  CHECK(drv.size() == 1 + 20);  // 10 throttle steps × 2 packs
   CHECK(drv[0].rfind("cells,cell_V,bus_V,throttle_pct,duty,", 0) == 0);
   auto dis = csv({"discharge", source_path(kPack), "--current", "10", "--sample-s", "10"});
   CHECK(dis[0] == "time_s,current_A,v_terminal_V,v_ocv_V,soc,power_W,cell_temperature_C");  // the demo LiPo has a thermal block

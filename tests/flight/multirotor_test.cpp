@@ -150,6 +150,23 @@ TEST_CASE("edgewise flow: v_i has the closed form and tends to T/(2 rho A V)") {
   CHECK(last_err < 4e-6);
 }
 
+TEST_CASE("level flight: the induced-velocity ratio read from the textbook's figure") {
+  // J. G. Leishman, Principles of Helicopter Aerodynamics, 2nd ed., 2006, §2.14 (forward flight):
+  // the figure of the exact solution of Glauert's equation, v_i/v_h against V∞/v_h for a disc at
+  // zero angle of attack. Values read off that figure, from memory (two figures): 0.79 at
+  // V∞/v_h = 1, 0.49 at 2, 0.33 at 3, and the curve meets the v_h/V∞ asymptote within reading
+  // accuracy from about 3 on. Checked to reading accuracy, ±0.01.
+  const double T = 6.0, vh = hover_induced_velocity(T, kRho, kArea);
+  const std::pair<double, double> read[] = {{1.0, 0.79}, {2.0, 0.49}, {3.0, 0.33}};
+  for (const auto& [speed_ratio, vi_ratio] : read) {
+    CAPTURE(speed_ratio);
+    const Inflow in = glauert_inflow(T, kRho, kArea, 0.0, speed_ratio * vh);
+    CHECK(std::fabs(in.induced_mps / vh - vi_ratio) <= 0.01);
+  }
+  const Inflow fast = glauert_inflow(T, kRho, kArea, 0.0, 3.0 * vh);
+  CHECK(std::fabs(fast.induced_mps / vh - 1.0 / 3.0) <= 0.01);
+}
+
 TEST_CASE("forward flight: T = sqrt(W^2 + D^2) with tilt atan(D/W) and Glauert's equation holding") {
   // DESIGN.md "Flight": the rotors balance weight and drag D = ½ρV²·CdA; Glauert's inflow
   // v_i = T/(2ρA·√((V cos α)² + (V sin α + v_i)²)) (Leishman 2006, ch. 2).
