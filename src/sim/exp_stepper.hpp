@@ -27,6 +27,9 @@
 
 namespace sortie::sim {
 
+/// Largest step, in units of the pair's τ, while an RC pair is away from its equilibrium.
+inline constexpr double kTransientStepTau = 0.5;
+
 class ExpStepper {
  public:
   using State = battery::State;
@@ -38,6 +41,7 @@ class ExpStepper {
     t1_ = t0;
     dt_ = dt0;
     have_f1_ = false;
+    first_step_ = true;
   }
 
   double current_time() const { return t1_; }
@@ -54,9 +58,27 @@ class ExpStepper {
     const double soc = x0_[battery::kSoc];
     l_.fill(0.0);
     for (std::size_t k = 0; k < rhs.pack.n_rc; ++k) l_[battery::kV1 + k] = -1.0 / rhs.pack.tau_s[k](soc);
+    // Transient cap: after a load step (the first step from initialize) an RC voltage is away
+    // from the value the present current holds it at, by A0 = τ·|dv/dt|; its forcing
+    // N = I(v)·R/τ then moves on the pair's own time scale, which the frozen-N stages and the
+    // dense output do not follow. Until that distance has decayed to the tolerance scale s
+    // (A0·e^{−t/τ} = s, at t = τ·ln(A0/s)) the step is held to half the pair's τ.
+    if (first_step_) {
+      first_step_ = false;
+      for (std::size_t i = 0; i < 6; ++i) {
+        transient_end_[i] = t0_;
+        if (l_[i] == 0.0) continue;
+        const double tau = -1.0 / l_[i];
+        const double a0 = tau * std::fabs(f0_[i]);
+        const double scale = atol_ + rtol_ * std::fabs(x0_[i]);
+        if (a0 > scale) transient_end_[i] = t0_ + tau * std::log(a0 / scale);
+      }
+    }
+    double cap = max_dt_ > 0 ? max_dt_ : std::numeric_limits<double>::infinity();
+    for (std::size_t i = 0; i < 6; ++i)
+      if (l_[i] != 0.0 && t0_ < transient_end_[i]) cap = std::min(cap, kTransientStepTau / -l_[i]);
     while (true) {
-      double h = dt_;
-      if (max_dt_ > 0) h = std::min(h, max_dt_);
+      double h = std::min(dt_, cap);
       const double err = attempt(rhs, h);
       // A state that overflowed is handed back as it is: the caller retries from the step's
       // start or names the non-finite state.
@@ -87,6 +109,26 @@ class ExpStepper {
         return {t0_, t0_};
       }
     }
+  }
+
+  /// The state at t inside the last step [t0, t1] by one step of the method from t0 to t: as
+  /// accurate as the step itself (four evaluations of the right-hand side), for locating events
+  /// and ending a stretch, where the cubic dense output over a long step is not.
+  void exact_state(const battery::Thevenin& rhs, double t, State& out) {
+    if (t <= t0_) {
+      out = x0_;
+      return;
+    }
+    if (t >= t1_) {
+      out = x1_;
+      return;
+    }
+    const State keep_xn = xn_, keep_fn = fn_, keep_w3 = w3_;
+    attempt(rhs, t - t0_);
+    out = xn_;
+    xn_ = keep_xn;
+    fn_ = keep_fn;
+    w3_ = keep_w3;
   }
 
   /// The state at t inside the last step [t0, t1].
@@ -191,7 +233,8 @@ class ExpStepper {
   double t0_ = 0, t1_ = 0, dt_ = 1, h_ = 0;
   State x0_{}, x1_{}, f0_{}, f1_{}, xn_{}, fn_{}, w3_{}, miss_{};
   std::array<double, 6> l_{};
-  bool have_f1_ = false;
+  bool have_f1_ = false, first_step_ = true;
+  std::array<double, 6> transient_end_{};
 };
 
 }  // namespace sortie::sim

@@ -359,6 +359,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
       so.max_samples = opts.max_trace_samples;
       so.samples_done = out.trace.size();
       so.context = phase_context;
+      so.method = SegmentOptions::Method::exponential;
       so.abs_tol = 1e-9;
       so.rel_tol = 1e-9;
       const double vm = setup->v_motor_V;
@@ -574,6 +575,7 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
       // No end time: the hold runs until its loaded voltage floor, saturation, power collapse
       // or an empty pack ends it (one of them always does: the charge only falls), within the
       // phase step cap.
+      so.method = SegmentOptions::Method::exponential;
       so.abs_tol = 1e-9;
       so.rel_tol = 1e-9;
       so.max_steps = opts.max_steps_per_phase;
