@@ -27,9 +27,6 @@
 
 namespace sortie::sim {
 
-/// Largest step, in units of the pair's τ, while an RC pair is away from its equilibrium.
-inline constexpr double kTransientStepTau = 0.5;
-
 class ExpStepper {
  public:
   using State = battery::State;
@@ -41,7 +38,6 @@ class ExpStepper {
     t1_ = t0;
     dt_ = dt0;
     have_f1_ = false;
-    first_step_ = true;
   }
 
   double current_time() const { return t1_; }
@@ -58,25 +54,7 @@ class ExpStepper {
     const double soc = x0_[battery::kSoc];
     l_.fill(0.0);
     for (std::size_t k = 0; k < rhs.pack.n_rc; ++k) l_[battery::kV1 + k] = -1.0 / rhs.pack.tau_s[k](soc);
-    // Transient cap: after a load step (the first step from initialize) an RC voltage is away
-    // from the value the present current holds it at, by A0 = τ·|dv/dt|; its forcing
-    // N = I(v)·R/τ then moves on the pair's own time scale, which the frozen-N stages and the
-    // dense output do not follow. Until that distance has decayed to the tolerance scale s
-    // (A0·e^{−t/τ} = s, at t = τ·ln(A0/s)) the step is held to half the pair's τ.
-    if (first_step_) {
-      first_step_ = false;
-      for (std::size_t i = 0; i < 6; ++i) {
-        transient_end_[i] = t0_;
-        if (l_[i] == 0.0) continue;
-        const double tau = -1.0 / l_[i];
-        const double a0 = tau * std::fabs(f0_[i]);
-        const double scale = atol_ + rtol_ * std::fabs(x0_[i]);
-        if (a0 > scale) transient_end_[i] = t0_ + tau * std::log(a0 / scale);
-      }
-    }
     double cap = max_dt_ > 0 ? max_dt_ : std::numeric_limits<double>::infinity();
-    for (std::size_t i = 0; i < 6; ++i)
-      if (l_[i] != 0.0 && t0_ < transient_end_[i]) cap = std::min(cap, kTransientStepTau / -l_[i]);
     while (true) {
       double h = std::min(dt_, cap);
       const double err = attempt(rhs, h);
@@ -233,8 +211,7 @@ class ExpStepper {
   double t0_ = 0, t1_ = 0, dt_ = 1, h_ = 0;
   State x0_{}, x1_{}, f0_{}, f1_{}, xn_{}, fn_{}, w3_{}, miss_{};
   std::array<double, 6> l_{};
-  bool have_f1_ = false, first_step_ = true;
-  std::array<double, 6> transient_end_{};
+  bool have_f1_ = false;
 };
 
 }  // namespace sortie::sim
