@@ -14,7 +14,7 @@ ref=$("$py" "$here/scipy_reference.py" 5)
 echo "$ref"
 "$build/bench/sortie_bench" discharge_300W_4S2P_2RC | while read -r name us _rest; do
   echo "$name $us us"
-  base=${name%_exp}
+  base=${name%_dopri5}
   line=$(echo "$ref" | grep "^$base " || true)
   [ -n "$line" ] || continue
   ref_us=$(echo "$line" | cut -d' ' -f2)

@@ -38,8 +38,9 @@ struct DischargeSpec {
   /// What the run is, leading the cap messages ("discharge: load.csv").
   std::string context = "discharge";
   std::size_t max_samples = 1000000;   ///< trace samples in all (LimitError beyond)
-  /// The stepper and its tolerances (SegmentOptions).
-  SegmentOptions::Method method = SegmentOptions::Method::dopri5;
+  /// The stepper and its tolerances (SegmentOptions): the exponential stepper by default,
+  /// Dormand–Prince kept as the reference.
+  SegmentOptions::Method method = SegmentOptions::Method::exponential;
   double abs_tol = 1e-10, rel_tol = 1e-10;
   std::size_t* steps_out = nullptr;  ///< where to add the accepted steps taken (may be null)
 };

@@ -359,8 +359,9 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
       so.max_samples = opts.max_trace_samples;
       so.samples_done = out.trace.size();
       so.context = phase_context;
-      so.abs_tol = 1e-9;
-      so.rel_tol = 1e-9;
+      so.method = opts.method;
+      so.abs_tol = opts.tol;
+      so.rel_tol = opts.tol;
       const double vm = setup->v_motor_V;
       const bool hover = multirotor && p.kind == Phase::Kind::hover;
       auto track = [&](const Sample& s) {
@@ -574,8 +575,9 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
       // No end time: the hold runs until its loaded voltage floor, saturation, power collapse
       // or an empty pack ends it (one of them always does: the charge only falls), within the
       // phase step cap.
-      so.abs_tol = 1e-9;
-      so.rel_tol = 1e-9;
+      so.method = opts.method;
+      so.abs_tol = opts.tol;
+      so.rel_tol = opts.tol;
       so.max_steps = opts.max_steps_per_phase;
       so.context = "reserve time at landing";
       const auto seg = run_segment(pm, setup->demand, t, x, ev, so);

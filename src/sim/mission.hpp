@@ -48,6 +48,10 @@ struct SimOptions {
   /// at or above the floor (rule soc_covered) and the time on station left at landing is
   /// counted down to the floor only.
   bool accept_extrapolation = false;
+  /// The pack's stepper (SegmentOptions::Method) and its tolerances: the exponential stepper at
+  /// 1e-9 by default; Dormand–Prince at a tighter tolerance is the reference the tests hold it to.
+  SegmentOptions::Method method = SegmentOptions::Method::exponential;
+  double tol = 1e-9;
 };
 
 struct PhaseSummary {

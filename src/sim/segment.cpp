@@ -102,9 +102,19 @@ SegmentResult run_segment(const battery::PackModel& pack, const battery::Demand&
         stepper.calc_state(t, tmp);
         return make_sample(rhs, t, tmp);
       };
+      // Events and a stretch's end: at the stepper's own accuracy where it offers it (the
+      // exponential stepper steps again from ta), else on the dense output.
+      auto at_exact = [&](double t) {
+        if constexpr (requires { stepper.exact_state(rhs, t, tmp); }) {
+          stepper.exact_state(rhs, t, tmp);
+          return make_sample(rhs, t, tmp);
+        } else {
+          return at(t);
+        }
+      };
       const bool reaches_end = tb >= opts.t_end;
       const double t_hi = reaches_end ? opts.t_end : tb;
-      const Sample hi = reaches_end ? at(t_hi) : make_sample(rhs, tb, stepper.current_state());
+      const Sample hi = reaches_end ? at_exact(t_hi) : make_sample(rhs, tb, stepper.current_state());
       if (!finite(hi)) {
         // Odeint's error estimate lets a step whose trial stages overflowed through (a NaN error
         // is never "too large"). Take the step again from its start, ten times shorter, until it
@@ -124,11 +134,11 @@ SegmentResult run_segment(const battery::PackModel& pack, const battery::Demand&
       for (std::size_t k = 0; k < events.size(); ++k) {
         g_hi[k] = events[k].g(hi);
         if (!(g_prev[k] > 0.0 && g_hi[k] <= 0.0)) continue;
-        auto gk = [&](double t) { return events[k].g(at(t)); };
+        auto gk = [&](double t) { return events[k].g(at_exact(t)); };
         const double tc =
             find_root(gk, ta, t_hi, g_prev[k], g_hi[k], opts.time_tol_s).value_or(t_hi);
         // Take the upper end of the final bracket side so the reported state has crossed.
-        Crossing c{k, at(std::min(t_hi, tc))};
+        Crossing c{k, at_exact(std::min(t_hi, tc))};
         if (events[k].terminal) {
           if (!first_terminal || c.at.t < first_terminal->at.t) first_terminal = c;
         } else {
