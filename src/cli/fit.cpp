@@ -109,6 +109,10 @@ int run_fit_cell(const FitCellOptions& o) {
       battery::Pack pack;
       pack.cell = cell;
       pack.soc0 = r.soc[a];
+      // At the temperature the resistances were fitted at; with a thermal block, from the air
+      // the block was fitted with (the log starts with the cell at the air).
+      if (r.arrhenius) pack.temperature_C = r.arrhenius->reference_C;
+      if (r.thermal) pack.temperature_C = r.thermal->air_C, pack.air_C = r.thermal->air_C;
       sim::CurrentLog cl;
       cl.time_s.assign(log.time_s.begin() + static_cast<std::ptrdiff_t>(a), log.time_s.begin() + static_cast<std::ptrdiff_t>(b));
       cl.current_A.assign(log.current_A.begin() + static_cast<std::ptrdiff_t>(a), log.current_A.begin() + static_cast<std::ptrdiff_t>(b));

@@ -36,6 +36,7 @@ CellFitResult fit_impl(const CellLog& log, const CellFitOptions& opts, const Soc
   detail::model_limits(w);
   detail::model_mass(w);
   detail::model_thermal(w);
+  detail::model_temperature(w);
   detail::model_note(w);
   return out;
 }

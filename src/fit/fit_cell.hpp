@@ -22,6 +22,7 @@
 #include "fit/cell_log.hpp"
 #include "fit/levenberg_marquardt.hpp"
 #include "fit/soc.hpp"
+#include "fit/cell_priors.hpp"
 #include "fit/thermal_fit.hpp"
 
 namespace sortie::fit {
@@ -97,8 +98,9 @@ struct CellFitResult {
   std::size_t held_out_rows = 0;
   double held_out_rmse_V = 0.0;     ///< predicted on rows the fold's parameters never saw
   std::vector<std::size_t> log_starts{0};  ///< first row of each input log (several logs)
-  std::vector<std::string> files;          ///< the input logs    ///< of the fit's own recurrence over the rows used
-  std::optional<ThermalFit> thermal;  ///< with a temperature column that moves enough
+  std::vector<std::string> files;          ///< the input logs
+  std::optional<ThermalFit> thermal;  ///< with a temperature column (fitted within bounds, or defaults)
+  std::optional<ArrheniusFit> arrhenius;  ///< the resistances over temperature written (fitted or the prior)
   std::vector<std::string> notes;
   std::vector<std::string> warnings;
 };

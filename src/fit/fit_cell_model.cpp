@@ -127,27 +127,42 @@ void model_mass(FitWork& w) {
                            " kg written as a placeholder (200 Wh/kg); weigh the cell and give --mass-kg");
 }
 
-/// The thermal block, from a temperature column (fit/thermal_fit).
+/// The thermal block, from a temperature column, within the bounds of a cell of this mass
+/// (fit/thermal_fit, fit/cell_priors); none without a temperature column.
 void model_thermal(FitWork& w) {
   CellFitResult& out = w.out;
   battery::Cell& c = out.cell;
-  if (!out.has_temperature) return;
+  if (!out.has_temperature) {
+    out.notes.push_back("no thermal block: the log has no temperature column (the model's cell stays at the pack "
+                        "temperature; log the cell temperature to get one)");
+    return;
+  }
   std::string why;
-  out.thermal = fit_thermal(w.log, w.soc(), c, w.opts.air_C, why);
+  out.thermal = fit_thermal(w.log, w.soc(), c, w.opts.air_C, thermal_prior(c.mass_kg), out.warnings, why);
   if (!out.thermal) {
     out.warnings.push_back("no thermal block: " + why);
     return;
   }
-  const double cp = out.thermal->heat_capacity_J_per_K / c.mass_kg;
-  if (cp < 100.0 || cp > 5000.0) {
-    out.warnings.push_back("thermal block not written: the fitted heat capacity " +
-                           format_fixed(out.thermal->heat_capacity_J_per_K, 1) + " J/K is " + format_fixed(cp, 0) +
-                           " J/(kg·K) for " + format_fixed(c.mass_kg, 3) +
-                           " kg (expected 100 to 5000; give --mass-kg, or check the temperature sensor's contact)");
-    out.thermal.reset();
-  } else {
-    c.thermal = battery::Thermal{cp, out.thermal->hA_W_per_K};
+  c.thermal = battery::Thermal{out.thermal->heat_capacity_J_per_K / c.mass_kg, out.thermal->hA_W_per_K};
+  out.notes.push_back("thermal block: " + out.thermal->how);
+}
+
+/// The resistances' temperature dependence: Arrhenius, fitted where the log's current steps
+/// span enough temperature, else the prior (fit/cell_priors).
+void model_temperature(FitWork& w) {
+  CellFitResult& out = w.out;
+  double ref = 25.0;
+  std::string how = "(assumed: the log has no temperature column; give --air-C for the test's temperature)";
+  if (out.has_temperature) {
+    ref = out.temperature_mean_C;
+    how = "(the log's mean cell temperature)";
+  } else if (w.opts.air_C) {
+    ref = *w.opts.air_C;
+    how = "(the air temperature given)";
   }
+  out.arrhenius = fit_arrhenius(w.log, w.steps, out.cell, ref, how);
+  out.cell.temperature = arrhenius_effect(*out.arrhenius);
+  (out.arrhenius->fitted ? out.notes : out.warnings).push_back("resistance over temperature (Arrhenius): " + out.arrhenius->how);
 }
 
 /// The note written into the model file.

@@ -86,6 +86,7 @@ void model_circuit(FitWork& w, const Table& ocv);
 void model_limits(FitWork& w);
 void model_mass(FitWork& w);
 void model_thermal(FitWork& w);
+void model_temperature(FitWork& w);
 void model_note(FitWork& w);
 
 }  // namespace sortie::fit::detail

@@ -104,7 +104,11 @@ std::string fit_cell_text(const fit::CellLog& log, const fit::CellFitResult& r,
                                 "), air " + fixed(t.air_C, 1) + " °C" + (t.air_given ? " (given)" : " (fitted)"));
     kv.add("", "temperature RMSE " + fixed(t.rmse_K, 2) + " K, largest " + fixed(t.max_error_K, 2) +
                    " K (the block re-run on the circuit's heat over " + std::to_string(t.rows) + " rows)");
+    kv.add("", t.how);
   }
+  if (r.arrhenius)
+    kv.add("R(T)", std::string(r.arrhenius->fitted ? "Arrhenius, fitted: " : "Arrhenius, prior: ") +
+                                              r.arrhenius->how);
   out += kv.render();
 
   out += "\nparameters per SoC band (R0 step: -dV/dI across the band's current steps)\n";
@@ -193,7 +197,18 @@ nlohmann::ordered_json fit_cell_json(const fit::CellLog& log, const fit::CellFit
                     {"air_C", r.thermal->air_C},
                     {"air_given", r.thermal->air_given},
                     {"temperature_rmse_K", r.thermal->rmse_K},
-                    {"temperature_max_error_K", r.thermal->max_error_K}};
+                    {"temperature_max_error_K", r.thermal->max_error_K},
+                    {"c_fitted", r.thermal->c_fitted},
+                    {"hA_fitted", r.thermal->hA_fitted},
+                    {"how", r.thermal->how}};
+  if (r.arrhenius)
+    j["resistance_temperature"] = {{"model", "arrhenius"},
+                                   {"source", r.arrhenius->fitted ? "fitted" : "prior"},
+                                   {"activation_energy_J_per_mol", r.arrhenius->ea_J_per_mol},
+                                   {"reference_C", r.arrhenius->reference_C},
+                                   {"temperature_spread_K", r.arrhenius->spread_K},
+                                   {"steps_with_temperature", r.arrhenius->steps},
+                                   {"how", r.arrhenius->how}};
   j["voltage_max_error_line"] = e.all.rows ? log.line[e.all.max_row] : 0;
   j["voltage_mean_error_V"] = e.all.mean_V;
   j["held_out_blocks"] = r.held_out_blocks;
