@@ -25,7 +25,8 @@ CellFitResult fit_impl(const CellLog& log, const CellFitOptions& opts, const Soc
   detail::count_soc(w, given);
   detail::first_r0(w);
   detail::first_ocv(w);
-  detail::fit_constants(w);
+  detail::rc_bounds(w);
+  detail::choose_rc_structure(w);
   detail::fit_tables(w);
   detail::band_excitation(w);
   detail::choose_structure(w);

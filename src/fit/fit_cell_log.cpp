@@ -123,7 +123,7 @@ void survey_log(FitWork& w) {
   const std::size_t n = w.n = log.size();
   out.rows = n;
   out.sections = log.section_starts.size();
-  out.n_rc = w.nrc = w.opts.rc_pairs;
+  out.n_rc = w.nrc = w.opts.rc_pairs != 0 ? w.opts.rc_pairs : 2;
   out.notes = log.notes;
   out.warnings = log.warnings;
   if (n < 10)

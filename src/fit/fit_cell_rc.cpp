@@ -76,8 +76,9 @@ Fit FitWork::solve(const RcSolution& start, const RcBounds& b, bool tau_tab, boo
   return f;
 }
 
-/// Step 4: constant R0, R_p, τ_p and the OCV, from several starting time constants.
-void fit_constants(FitWork& w) {
+/// The bounds of the resistances and time constants: τ from half the sampling interval at the
+/// steps to the longest rest (or a quarter of the log).
+void rc_bounds(FitWork& w) {
   w.bounds.r_min_ohm = std::max(1e-8, w.r0_step * 1e-4);
   w.bounds.r_max_ohm = std::max(10.0, w.r0_step * 100.0);
   w.tau_min = std::max(0.05, 0.5 * w.dt_step);
@@ -85,9 +86,15 @@ void fit_constants(FitWork& w) {
   w.bounds.tau_min_s = {w.tau_min, w.tau_min};
   w.bounds.tau_max_s = {w.tau_max, w.tau_max};
   w.lm.max_iterations = w.opts.max_iterations;
+  w.block = log_blocks(w.log, w.rests, w.opts.rest_min_s, w.nblocks);
+}
+
+/// Step 4: constant R0, R_p, τ_p and the OCV, from several starting time constants.
+void fit_constants(FitWork& w) {
   const std::vector<std::array<double, 2>> starts =
       w.nrc == 2 ? std::vector<std::array<double, 2>>{{2, 60}, {8, 200}, {20, 600}, {1, 20}}
                  : std::vector<std::array<double, 2>>{{5, 0}, {30, 0}, {150, 0}, {600, 0}};
+  w.constants = Fit{};
   for (const auto& st : starts) {
     const std::array<double, 2> tau{std::clamp(st[0], w.tau_min, w.tau_max), std::clamp(st[1], w.tau_min, w.tau_max)};
     RcSolution s0;
@@ -96,6 +103,46 @@ void fit_constants(FitWork& w) {
     if (f.cost < w.constants.cost) w.constants = f;
   }
   w.constants.s = fast_pair_first(w.constants.s, w.nrc);
+}
+
+/// The number of RC pairs and the time constants' upper bound, when not given: of one pair up to
+/// the longest rest, and two pairs up to it, to 1800 s and to 300 s, the structure whose
+/// constants predict the held-out blocks best (a simpler one is kept unless another is better by
+/// more than 5 %). The cap keeps the long rests' slow relaxation out of the load pairs when that
+/// predicts the loads better.
+void choose_rc_structure(FitWork& w) {
+  if (w.opts.rc_pairs != 0 || w.nblocks < 2) {
+    w.out.n_rc = w.nrc = w.opts.rc_pairs != 0 ? w.opts.rc_pairs : 2;
+    fit_constants(w);
+    return;
+  }
+  const double full = w.tau_max;
+  std::vector<RcCandidate> cands = {{1, full}, {2, std::min(full, 300.0)}, {2, std::min(full, 1800.0)}, {2, full}};
+  std::vector<Fit> fits;
+  std::size_t best = 0;
+  for (std::size_t c = 0; c < cands.size(); ++c) {
+    if (c > 0 && cands[c].tau_max_s <= cands[c - 1].tau_max_s * 1.0001 && cands[c].rc_pairs == cands[c - 1].rc_pairs) {
+      cands[c].held_out_rmse_V = cands[c - 1].held_out_rmse_V, fits.push_back(fits.back());
+      continue;  // the same structure
+    }
+    w.nrc = cands[c].rc_pairs;
+    w.tau_max = std::max(20.0 * w.tau_min, cands[c].tau_max_s);
+    w.bounds.tau_max_s = {w.tau_max, w.tau_max};
+    fit_constants(w);
+    std::size_t rows = 0;
+    cands[c].held_out_rmse_V = held_out_rmse(w, w.constants.s, w.bounds, false, rows);
+    fits.push_back(w.constants);
+    if (cands[c].held_out_rmse_V < 0.95 * cands[best].held_out_rmse_V) best = c;
+  }
+  cands[best].chosen = true;
+  w.out.n_rc = w.nrc = cands[best].rc_pairs;
+  w.tau_max = std::max(20.0 * w.tau_min, cands[best].tau_max_s);
+  w.bounds.tau_max_s = {w.tau_max, w.tau_max};
+  w.constants = fits[best];
+  w.out.rc_candidates = cands;
+  w.out.notes.push_back(std::to_string(w.nrc) + " RC pair(s) with time constants up to " + format_fixed(w.tau_max, 0) +
+                        " s: the lowest held-out error of the constants among the structures tried (" +
+                        format_fixed(1000.0 * cands[best].held_out_rmse_V, 2) + " mV; give --rc to fix the count)");
 }
 
 /// Step 5: tables over SoC bands. Knots where the log excites the cell: current steps grouped
@@ -236,31 +283,33 @@ void choose_structure(FitWork& w) {
   out.bands = {b};
 }
 
+double held_out_rmse(FitWork& w, const RcSolution& start, const RcBounds& b, bool tau_tab, std::size_t& rows) {
+  rows = 0;
+  if (w.nblocks < 2) return 0.0;
+  double cost = 0.0;
+  for (int f = 0; f < 2; ++f) {
+    std::vector<char> train = w.use, held(w.n, 0);
+    for (std::size_t k = 0; k < w.n; ++k)
+      if (w.use[k] && w.block[k] >= 0 && w.block[k] % 2 == f) train[k] = 0, held[k] = 1;
+    const Fit tf = w.solve(start, b, tau_tab, true, &train);
+    RcProblem ph = w.problem(tf.s.t.knots, tau_tab, true, &held);
+    cost += ph.data_cost(tf.s);
+    rows += ph.rows_used();
+  }
+  return rows ? std::sqrt(2.0 * cost / static_cast<double>(rows)) : 0.0;
+}
+
 /// Held-out check: two folds over the blocks between long rests; each fold refits the final
 /// structure without the other's load rows and predicts them (rests kept in both).
 void held_out_check(FitWork& w) {
   CellFitResult& out = w.out;
-  int nblocks = 0;
-  const std::vector<int> block = log_blocks(w.log, w.rests, w.opts.rest_min_s, nblocks);
-  out.held_out_blocks = static_cast<std::size_t>(nblocks);
-  if (nblocks < 2) {
+  out.held_out_blocks = static_cast<std::size_t>(w.nblocks);
+  if (w.nblocks < 2) {
     out.warnings.push_back("the log has fewer than two blocks between rests of " + format_fixed(w.opts.rest_min_s, 0) +
                            " s: no held-out check; the quality gate judges the re-simulation alone");
     return;
   }
-  double cost = 0.0;
-  std::size_t rows_h = 0;
-  for (int f = 0; f < 2; ++f) {
-    std::vector<char> train = w.use, held(w.n, 0);
-    for (std::size_t k = 0; k < w.n; ++k)
-      if (w.use[k] && block[k] >= 0 && block[k] % 2 == f) train[k] = 0, held[k] = 1;
-    const Fit tf = w.solve(w.final_s(), w.final_bounds(), out.tau_tables, true, &train);
-    RcProblem ph = w.problem(tf.s.t.knots, out.tau_tables, true, &held);
-    cost += ph.data_cost(tf.s);
-    rows_h += ph.rows_used();
-  }
-  out.held_out_rows = rows_h;
-  out.held_out_rmse_V = rows_h ? std::sqrt(2.0 * cost / static_cast<double>(rows_h)) : 0.0;
+  out.held_out_rmse_V = held_out_rmse(w, w.final_s(), w.final_bounds(), out.tau_tables, out.held_out_rows);
 }
 
 /// Warnings on the fit: SoC stretches without current steps, bands with loose estimates, the

@@ -48,6 +48,8 @@ struct FitWork {
   bool tau_tables = false;
   std::vector<double> knots;
   std::size_t excited = 0;
+  std::vector<int> block;  ///< per row: its block between long rests (-1: a long rest)
+  int nblocks = 0;
 
   FitWork(const CellLog& l, const CellFitOptions& o, CellFitResult& r) : log(l), opts(o), out(r) {}
   const SocEstimate& se() const { return out.soc_estimate; }
@@ -73,7 +75,12 @@ void first_ocv(FitWork& w);
 std::vector<int> log_blocks(const CellLog& log, const std::vector<Rest>& rests, double rest_min_s, int& count);
 
 // fit_cell_rc.cpp: the RC pairs.
+void rc_bounds(FitWork& w);
 void fit_constants(FitWork& w);
+void choose_rc_structure(FitWork& w);
+/// RMSE of a two-fold prediction over the blocks between long rests, refitting `start` (with
+/// bounds `b`) on the other fold's rows; 0 rows when the log has fewer than two blocks.
+double held_out_rmse(FitWork& w, const RcSolution& start, const RcBounds& b, bool tau_tables, std::size_t& rows);
 void fit_tables(FitWork& w);
 void band_excitation(FitWork& w);
 void choose_structure(FitWork& w);

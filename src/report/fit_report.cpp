@@ -75,6 +75,13 @@ std::string fit_cell_text(const fit::CellLog& log, const fit::CellFitResult& r,
                               " rows the fit counts (long charges and the rests after them are left out: the OCV "
                               "on charge lies higher, by hysteresis)");
   kv.add("mean error", fixed(1000.0 * e.all.mean_V, 1) + " mV (model minus measured)");
+  if (!r.rc_candidates.empty()) {
+    std::string t;
+    for (const auto& c : r.rc_candidates)
+      t += (t.empty() ? "" : ", ") + std::to_string(c.rc_pairs) + " RC to " + fixed(c.tau_max_s, 0) + " s " +
+           fixed(1000.0 * c.held_out_rmse_V, 1) + " mV" + (c.chosen ? " (chosen)" : "");
+    kv.add("RC structure", t + " (held-out RMSE of the constants)");
+  }
   if (r.held_out_rows > 0)
     kv.add("held-out RMSE", fixed(1000.0 * r.held_out_rmse_V, 1) + " mV over " + std::to_string(r.held_out_rows) +
                                 " rows predicted by fits that did not see them (two folds over " +
@@ -184,6 +191,12 @@ nlohmann::ordered_json fit_cell_json(const fit::CellLog& log, const fit::CellFit
   }
   j["ocv"] = {{"rest_points", r.ocv_rest_points}, {"loaded_points", r.ocv_loaded_points}, {"table_points", r.cell.ocv_V.size()}};
   j["rc_pairs"] = r.n_rc;
+  if (!r.rc_candidates.empty()) {
+    nlohmann::ordered_json cands = nlohmann::ordered_json::array();
+    for (const auto& c : r.rc_candidates)
+      cands.push_back({{"rc_pairs", c.rc_pairs}, {"tau_max_s", c.tau_max_s}, {"held_out_rmse_V", c.held_out_rmse_V}, {"chosen", c.chosen}});
+    j["rc_selection"] = cands;
+  }
   j["tables"] = r.tables;
   j["current_steps"] = r.steps;
   j["iterations"] = r.iterations;
