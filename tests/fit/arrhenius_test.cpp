@@ -30,7 +30,7 @@ void make(const std::vector<double>& t_C, fit::CellLog& log, std::vector<fit::Cu
 
 TEST_SUITE("fit") {
 
-TEST_CASE("arrhenius: steps over 10 to 40 °C give E_a back, and the factor table is 1 at the reference") {
+TEST_CASE("arrhenius: steps over 10 to 40 °C give E_a back and the factor table is 1 at the reference") {
   fit::CellLog log;
   std::vector<fit::CurrentStep> steps;
   make({10, 15, 20, 25, 30, 35, 40, 12, 28, 38}, log, steps);
@@ -45,7 +45,7 @@ TEST_CASE("arrhenius: steps over 10 to 40 °C give E_a back, and the factor tabl
   CHECK(e.r_factor(0.0) == doctest::Approx(4.38).epsilon(0.01));
 }
 
-TEST_CASE("arrhenius: a spread of 3 K gives the 30 kJ/mol prior, said so") {
+TEST_CASE("arrhenius: a spread of 3 K gives the 30 kJ/mol prior and says so") {
   fit::CellLog log;
   std::vector<fit::CurrentStep> steps;
   make({24, 25, 26, 27, 24.5, 25.5, 26.5}, log, steps);
