@@ -37,7 +37,7 @@ struct FitCellOptions {
   bool accept_poor_fit = false;
   bool discharge_positive = false, discharge_negative = false;
   std::optional<double> capacity_Ah, soc0, v_max_V, v_cutoff_V, mass_kg, i_cont_max_A, air_C;
-  int rc = 2;
+  int rc = 0;  ///< 0: chosen by held-out error
   int series = 1, parallel = 1;
   double soc_band = 0.1, rest_min_s = 300.0;
   std::string name, chemistry;
@@ -109,6 +109,10 @@ int run_fit_cell(const FitCellOptions& o) {
       battery::Pack pack;
       pack.cell = cell;
       pack.soc0 = r.soc[a];
+      // At the temperature the resistances were fitted at; with a thermal block, from the air
+      // the block was fitted with (the log starts with the cell at the air).
+      if (r.arrhenius) pack.temperature_C = r.arrhenius->reference_C;
+      if (r.thermal) pack.temperature_C = r.thermal->air_C, pack.air_C = r.thermal->air_C;
       sim::CurrentLog cl;
       cl.time_s.assign(log.time_s.begin() + static_cast<std::ptrdiff_t>(a), log.time_s.begin() + static_cast<std::ptrdiff_t>(b));
       cl.current_A.assign(log.current_A.begin() + static_cast<std::ptrdiff_t>(a), log.current_A.begin() + static_cast<std::ptrdiff_t>(b));
@@ -177,7 +181,7 @@ void add_fit_cell(CLI::App& fit, int& exit_code) {
   dp->excludes(dn);
   c->add_option("--capacity-Ah", o->capacity_Ah, "cell capacity, Ah, when the log has no full discharge")
       ->check(number_in(above_to(0.0, 1e4, "Ah")));
-  c->add_option("--rc", o->rc, "RC pairs to fit: 1 or 2 (default 2)")->check(CLI::IsMember({1, 2}));
+  c->add_option("--rc", o->rc, "RC pairs to fit: 1 or 2 (default: the structure with the lowest held-out error)")->check(CLI::IsMember({1, 2}));
   c->add_option("--soc0", o->soc0, "state of charge at the first row, 0..1 (when the log has no full or empty point)")
       ->check(number_in(between(0.0, 1.0, "")));
   c->add_option("--v-max-V", o->v_max_V, "full-charge cell voltage, V (default: the constant-voltage level of the log's charges, else the chemistry's)")

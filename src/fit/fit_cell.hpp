@@ -22,6 +22,7 @@
 #include "fit/cell_log.hpp"
 #include "fit/levenberg_marquardt.hpp"
 #include "fit/soc.hpp"
+#include "fit/cell_priors.hpp"
 #include "fit/thermal_fit.hpp"
 
 namespace sortie::fit {
@@ -38,7 +39,7 @@ inline constexpr double kRestEndS = 60.0;
 inline constexpr double kQualityMaxRmseV = 0.020;
 
 struct CellFitOptions {
-  int rc_pairs = 2;            ///< 1 or 2
+  int rc_pairs = 0;            ///< 1 or 2; 0: chosen by held-out error with the time-constant cap
   SocOptions soc;              ///< capacity, soc0, v_max, v_cutoff
   double soc_band = 0.1;       ///< spacing of the SoC knots of R0, R_p, τ_p
   double rest_min_s = 300.0;   ///< shortest rest whose end is taken as an OCV point, s
@@ -65,6 +66,14 @@ struct BandFit {
   std::array<double, 2> se_tau{0.0, 0.0};
   bool excited = true;
   std::string why;            ///< when not excited
+};
+
+/// One structure tried when the RC pairs are chosen by held-out error.
+struct RcCandidate {
+  int rc_pairs = 2;
+  double tau_max_s = 0.0;        ///< the time constants' upper bound
+  double held_out_rmse_V = 0.0;  ///< of the constants fitted with it, two folds
+  bool chosen = false;
 };
 
 struct CellFitResult {
@@ -96,9 +105,11 @@ struct CellFitResult {
   std::size_t held_out_blocks = 0;  ///< blocks between long rests (two folds when >= 2)
   std::size_t held_out_rows = 0;
   double held_out_rmse_V = 0.0;     ///< predicted on rows the fold's parameters never saw
+  std::vector<RcCandidate> rc_candidates;  ///< empty: the RC pairs were given (or one block only)
   std::vector<std::size_t> log_starts{0};  ///< first row of each input log (several logs)
-  std::vector<std::string> files;          ///< the input logs    ///< of the fit's own recurrence over the rows used
-  std::optional<ThermalFit> thermal;  ///< with a temperature column that moves enough
+  std::vector<std::string> files;          ///< the input logs
+  std::optional<ThermalFit> thermal;  ///< with a temperature column (fitted within bounds, or defaults)
+  std::optional<ArrheniusFit> arrhenius;  ///< the resistances over temperature written (fitted or the prior)
   std::vector<std::string> notes;
   std::vector<std::string> warnings;
 };

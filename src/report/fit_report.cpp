@@ -75,6 +75,13 @@ std::string fit_cell_text(const fit::CellLog& log, const fit::CellFitResult& r,
                               " rows the fit counts (long charges and the rests after them are left out: the OCV "
                               "on charge lies higher, by hysteresis)");
   kv.add("mean error", fixed(1000.0 * e.all.mean_V, 1) + " mV (model minus measured)");
+  if (!r.rc_candidates.empty()) {
+    std::string t;
+    for (const auto& c : r.rc_candidates)
+      t += (t.empty() ? "" : ", ") + std::to_string(c.rc_pairs) + " RC to " + fixed(c.tau_max_s, 0) + " s " +
+           fixed(1000.0 * c.held_out_rmse_V, 1) + " mV" + (c.chosen ? " (chosen)" : "");
+    kv.add("RC structure", t + " (held-out RMSE of the constants)");
+  }
   if (r.held_out_rows > 0)
     kv.add("held-out RMSE", fixed(1000.0 * r.held_out_rmse_V, 1) + " mV over " + std::to_string(r.held_out_rows) +
                                 " rows predicted by fits that did not see them (two folds over " +
@@ -104,7 +111,11 @@ std::string fit_cell_text(const fit::CellLog& log, const fit::CellFitResult& r,
                                 "), air " + fixed(t.air_C, 1) + " °C" + (t.air_given ? " (given)" : " (fitted)"));
     kv.add("", "temperature RMSE " + fixed(t.rmse_K, 2) + " K, largest " + fixed(t.max_error_K, 2) +
                    " K (the block re-run on the circuit's heat over " + std::to_string(t.rows) + " rows)");
+    kv.add("", t.how);
   }
+  if (r.arrhenius)
+    kv.add("R(T)", std::string(r.arrhenius->fitted ? "Arrhenius, fitted: " : "Arrhenius, prior: ") +
+                                              r.arrhenius->how);
   out += kv.render();
 
   out += "\nparameters per SoC band (R0 step: -dV/dI across the band's current steps)\n";
@@ -180,6 +191,12 @@ nlohmann::ordered_json fit_cell_json(const fit::CellLog& log, const fit::CellFit
   }
   j["ocv"] = {{"rest_points", r.ocv_rest_points}, {"loaded_points", r.ocv_loaded_points}, {"table_points", r.cell.ocv_V.size()}};
   j["rc_pairs"] = r.n_rc;
+  if (!r.rc_candidates.empty()) {
+    nlohmann::ordered_json cands = nlohmann::ordered_json::array();
+    for (const auto& c : r.rc_candidates)
+      cands.push_back({{"rc_pairs", c.rc_pairs}, {"tau_max_s", c.tau_max_s}, {"held_out_rmse_V", c.held_out_rmse_V}, {"chosen", c.chosen}});
+    j["rc_selection"] = cands;
+  }
   j["tables"] = r.tables;
   j["current_steps"] = r.steps;
   j["iterations"] = r.iterations;
@@ -193,7 +210,18 @@ nlohmann::ordered_json fit_cell_json(const fit::CellLog& log, const fit::CellFit
                     {"air_C", r.thermal->air_C},
                     {"air_given", r.thermal->air_given},
                     {"temperature_rmse_K", r.thermal->rmse_K},
-                    {"temperature_max_error_K", r.thermal->max_error_K}};
+                    {"temperature_max_error_K", r.thermal->max_error_K},
+                    {"c_fitted", r.thermal->c_fitted},
+                    {"hA_fitted", r.thermal->hA_fitted},
+                    {"how", r.thermal->how}};
+  if (r.arrhenius)
+    j["resistance_temperature"] = {{"model", "arrhenius"},
+                                   {"source", r.arrhenius->fitted ? "fitted" : "prior"},
+                                   {"activation_energy_J_per_mol", r.arrhenius->ea_J_per_mol},
+                                   {"reference_C", r.arrhenius->reference_C},
+                                   {"temperature_spread_K", r.arrhenius->spread_K},
+                                   {"steps_with_temperature", r.arrhenius->steps},
+                                   {"how", r.arrhenius->how}};
   j["voltage_max_error_line"] = e.all.rows ? log.line[e.all.max_row] : 0;
   j["voltage_mean_error_V"] = e.all.mean_V;
   j["held_out_blocks"] = r.held_out_blocks;

@@ -29,9 +29,12 @@ sim::PulseTestProtocol warm_protocol(double air_C) {
 TEST_SUITE("fit") {
 
 TEST_CASE("fit thermal: a synthetic log with a known thermal block gives its heat capacity and hA back") {
-  // The invented demo cell: 0.118 kg at 1000 J/(kg·K) = 118 J/K, hA 0.08 W/K (τ ≈ 25 min).
-  const battery::Cell truth = io::load_cell_file(test::source_path(test::kDemoLogCell));
+  // The invented demo cell (0.118 kg) with a thermal block away from the fit's defaults (1000
+  // J/(kg·K), 0.078 W/K for its mass): 850 J/(kg·K) = 100.3 J/K, hA 0.12 W/K (τ ≈ 14 min).
+  battery::Cell truth = io::load_cell_file(test::source_path(test::kDemoLogCell));
   REQUIRE(truth.thermal);
+  truth.thermal->c_J_per_kgK = 850.0;
+  truth.thermal->hA_W_per_K = 0.12;
   for (const std::uint64_t seed : {std::uint64_t{20240611}, std::uint64_t{99}}) {
     MESSAGE("seed " << seed);
     sim::MeasurementNoise noise;
@@ -64,7 +67,7 @@ TEST_CASE("fit thermal: a synthetic log with a known thermal block gives its hea
   }
 }
 
-TEST_CASE("fit thermal: a temperature that barely moves gives a warning and no thermal block") {
+TEST_CASE("fit thermal: a temperature that barely moves gives a warning and the default thermal block") {
   const battery::Cell truth = io::load_cell_file(test::source_path(test::kDemoLogCell));
   sim::PulseTestProtocol p = warm_protocol(25.0);
   p.step_C = 0.5;  // gentle: the cell warms by a few tenths of a kelvin
@@ -78,11 +81,44 @@ TEST_CASE("fit thermal: a temperature that barely moves gives a warning and no t
   o.soc.capacity_Ah = truth.capacity_Ah;
   o.mass_kg = truth.mass_kg;
   const fit::CellFitResult r = fit::fit_cell(sim::to_cell_log(s, "synthetic"), o);
-  CHECK_FALSE(r.thermal);
-  CHECK_FALSE(r.cell.thermal);
+  REQUIRE(r.thermal);
+  REQUIRE(r.cell.thermal);
+  CHECK_FALSE(r.thermal->c_fitted);
+  CHECK_FALSE(r.thermal->hA_fitted);
+  // The defaults (fit/cell_priors, from memory / common practice): c 1000 J/(kg·K); hA = h·A with
+  // h 10 W/(m²·K) and A the area of a cube of the cell's volume at 2500 kg/m³.
+  CHECK(r.cell.thermal->c_J_per_kgK == doctest::Approx(1000.0));
+  const double area = 6.0 * std::pow(truth.mass_kg / 2500.0, 2.0 / 3.0);
+  CHECK(r.cell.thermal->hA_W_per_K == doctest::Approx(10.0 * area).epsilon(1e-6));
+  CHECK(r.thermal->air_C == doctest::Approx(25.0).epsilon(0.02));  // the log's first temperature
   bool warned = false;
-  for (const auto& w : r.warnings) warned = warned || w.rfind("no thermal block: the cell temperature moves", 0) == 0;
+  for (const auto& w : r.warnings) warned = warned || w.rfind("thermal block not fitted: the cell temperature moves", 0) == 0;
   CHECK(warned);
+}
+
+TEST_CASE("fit thermal: a fitted hA outside what a cell of its mass can have in air is replaced by the default") {
+  // The demo cell logged with a cooling of 0.02 W/K, below the smallest hA the bounds allow for
+  // 0.118 kg in air (7 W/(m²·K) over the area of a cube of its volume at 2500 kg/m³, 0.055 W/K;
+  // fit/cell_priors): the fit holds hA at its default and refits the heat capacity with it.
+  const battery::Cell truth = io::load_cell_file(test::source_path(test::kDemoLogCell));
+  battery::Cell cooled = truth;
+  cooled.thermal->hA_W_per_K = 0.02;
+  const sim::SyntheticLog s = sim::synthetic_pulse_test(cooled, warm_protocol(18.0), sim::MeasurementNoise{});
+  fit::CellFitOptions o;
+  o.chemistry = "LiPo";
+  o.soc.capacity_Ah = truth.capacity_Ah;
+  o.mass_kg = truth.mass_kg;
+  const fit::CellFitResult r = fit::fit_cell(sim::to_cell_log(s, "synthetic"), o);
+  REQUIRE(r.thermal);
+  MESSAGE("swing " << r.thermal->temperature_max_C - r.thermal->temperature_min_C << " K, " << r.thermal->how);
+  const double area = 6.0 * std::pow(truth.mass_kg / 2500.0, 2.0 / 3.0);
+  CHECK_FALSE(r.thermal->hA_fitted);
+  CHECK(r.thermal->hA_W_per_K == doctest::Approx(10.0 * area).epsilon(1e-6));
+  bool warned = false;
+  for (const auto& w : r.warnings) warned = warned || w.rfind("thermal block: the fitted hA", 0) == 0;
+  CHECK(warned);
+  CHECK(r.cell.thermal->c_J_per_kgK >= 700.0);
+  CHECK(r.cell.thermal->c_J_per_kgK <= 1400.0);
 }
 
 TEST_CASE("fit thermal: an isothermal synthetic log is the same with or without the thermal option") {
