@@ -17,36 +17,6 @@ namespace sortie::io {
 
 namespace {
 
-/// Split on a delimiter other than the comma; double quotes group as in CSV.
-std::vector<std::string> split_on(const std::string& line, char delim) {
-  std::vector<std::string> out;
-  std::string cur;
-  bool quoted = false;
-  for (std::size_t i = 0; i < line.size(); ++i) {
-    const char c = line[i];
-    if (quoted) {
-      if (c == '"' && i + 1 < line.size() && line[i + 1] == '"') {
-        cur += '"';
-        ++i;
-      } else if (c == '"') {
-        quoted = false;
-      } else {
-        cur += c;
-      }
-    } else if (c == '"') {
-      quoted = true;
-    } else if (c == delim) {
-      out.push_back(trim(cur));
-      cur.clear();
-    } else {
-      cur += c;
-    }
-  }
-  out.push_back(trim(cur));
-  while (out.size() > 1 && out.back().empty()) out.pop_back();
-  return out;
-}
-
 /// The delimiter of the file: of ',', ';' and tab, the one that splits most of the first 50
 /// non-comment lines into the same number (above one) of fields; comma on a tie. A decimal comma
 /// in a semicolon file gives varying comma counts, so it does not win.
@@ -121,25 +91,15 @@ DelimitedFile parse_delimited(const std::string& text, const std::string& name) 
   DelimitedFile f;
   f.file = name;
   f.delimiter = sniff_delimiter(text);
-  LineCursor in(text);
   const std::size_t n_lines = LineCursor::count(text);
   f.rows.reserve(n_lines);
   f.lines.reserve(n_lines);
-  std::string line;
-  std::size_t n = 0;
-  while (in.next(line)) {
-    ++n;
-    if (!line.empty() && line.back() == '\r') line.pop_back();
-    if (n == 1 && line.size() >= 3 && line.compare(0, 3, "\xEF\xBB\xBF") == 0) line.erase(0, 3);
-    const std::string t = trim(line);
-    if (t.empty()) continue;
-    if (t[0] == '#') {
-      f.comments.push_back(trim(t.substr(1)));
-      continue;
-    }
-    f.rows.push_back(f.delimiter == ',' ? split_csv_line(line) : split_on(line, f.delimiter), name);
-    f.lines.push_back(n);
-  }
+  for_each_record(
+      text, f.delimiter, [&](std::string c) { f.comments.push_back(std::move(c)); },
+      [&](std::size_t n, std::vector<std::string> fields) {
+        f.rows.push_back(fields, name);
+        f.lines.push_back(n);
+      });
   return f;
 }
 
