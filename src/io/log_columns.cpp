@@ -43,7 +43,8 @@ char sniff_delimiter(const std::string& text) {
 
 const std::vector<std::string> kUnitWords = {
     "s", "ms", "min", "h", "a", "ma", "v", "mv", "c", "degc", "°c", "k", "pct", "percent", "us",
-    "rpm", "n", "g", "gf", "kg", "kgf", "nm", "ncm", "mnm", "w", "rad/s"};
+    "rpm", "n", "g", "gf", "kg", "kgf", "nm", "ncm", "mnm", "w", "rad/s", "µs", "lbf", "ozf", "rps",
+    "nmm", "kgfcm", "hz", "1/min"};
 
 bool is_unit_word(const std::string& u) {
   const std::string l = to_lower(u);
@@ -187,6 +188,36 @@ std::map<std::string, ColumnRef> parse_column_spec(const std::string& spec,
     out[q] = ref;
     if (end == spec.size()) break;
   }
+  return out;
+}
+
+std::vector<std::map<std::string, ColumnRef>> parse_column_specs_per_file(const std::vector<std::string>& values,
+                                                                          const std::vector<std::string>& files,
+                                                                          const std::vector<std::string>& known) {
+  std::optional<std::map<std::string, ColumnRef>> general;
+  std::vector<std::optional<std::map<std::string, ColumnRef>>> own(files.size());
+  for (const auto& value : values) {
+    const auto at = value.find('@');
+    const bool for_file = at != std::string::npos && value.substr(0, at).find('=') == std::string::npos;
+    if (!for_file) {
+      if (general) throw UsageError("--columns: given twice for every log (got \"" + value + "\", expected one SPEC and FILE@SPEC for single logs)");
+      general = parse_column_spec(value, known);
+      continue;
+    }
+    const std::string file = trim(value.substr(0, at));
+    std::optional<std::size_t> k;
+    for (std::size_t i = 0; i < files.size() && !k; ++i)
+      if (files[i] == file || std::filesystem::path(files[i]).filename().string() == file) k = i;
+    if (!k) {
+      std::string list;
+      for (const auto& f : files) list += (list.empty() ? "" : ", ") + f;
+      throw UsageError("--columns: '" + file + "@' names no log of this run (got \"" + value + "\", expected one of " + list + ")");
+    }
+    if (own[*k]) throw UsageError("--columns: log " + files[*k] + " given columns twice");
+    own[*k] = parse_column_spec(value.substr(at + 1), known);
+  }
+  std::vector<std::map<std::string, ColumnRef>> out;
+  for (std::size_t i = 0; i < files.size(); ++i) out.push_back(own[i] ? *own[i] : general.value_or(std::map<std::string, ColumnRef>{}));
   return out;
 }
 

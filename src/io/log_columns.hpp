@@ -82,6 +82,15 @@ struct ColumnRef {
 std::map<std::string, ColumnRef> parse_column_spec(const std::string& spec,
                                                    const std::vector<std::string>& known);
 
+/// `--columns` values for several logs, one map per file in `files`' order. Each value is
+/// either `SPEC` (every log) or `FILE@SPEC` (that log only, in place of the general one), FILE
+/// as given on the command line or its file name. A value whose text before the first '@' holds
+/// no '=' names a file; one that is not among `files`, a file named twice, or two general values
+/// are a UsageError.
+std::vector<std::map<std::string, ColumnRef>> parse_column_specs_per_file(const std::vector<std::string>& values,
+                                                                          const std::vector<std::string>& files,
+                                                                          const std::vector<std::string>& known);
+
 /// The kinds of quantity a log column can hold, each with its accepted units.
 enum class Quantity { time, current, voltage, temperature, throttle, speed, force, torque, power };
 
