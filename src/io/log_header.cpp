@@ -35,7 +35,11 @@ int name_score(const std::string& base, const ColumnRule& rule, bool unit_fits) 
   for (const auto& s : rule.stems)
     if (contains(base, s)) return 20;
   for (const auto& sym : rule.symbols) {
-    if (base.size() <= sym.size() || base.compare(0, sym.size(), sym) != 0) continue;
+    if (base.compare(0, sym.size(), sym) != 0) continue;
+    if (base == sym) {
+      if (unit_fits) return 10;  // "t [°C]": the symbol alone, told apart by its unit
+      continue;
+    }
     if (one_of(base.substr(sym.size()), symbol_nouns())) return 10;
     if (unit_fits && base.size() <= sym.size() + 5) return 10;  // "tc [°C]", "vmeas (V)"
   }
