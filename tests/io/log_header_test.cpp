@@ -36,7 +36,7 @@ std::string usage_of(const std::vector<std::string>& values, const std::vector<s
 
 TEST_SUITE("io") {
 
-TEST_CASE("log header: words and units find the columns; a per-step clock is second choice") {
+TEST_CASE("log header: words and units find the columns and a per-step clock is second choice") {
   // Total time in hours, a per-step clock in seconds, the current in mA, the voltage in mV and
   // the temperature in K, under names no list spells out.
   const auto log = read(
@@ -48,6 +48,11 @@ TEST_CASE("log header: words and units find the columns; a per-step clock is sec
   CHECK(log.voltage_V[1] == doctest::Approx(3.78));
   REQUIRE(log.temperature_C.size() == 4);
   CHECK(log.temperature_C[1] == doctest::Approx(25.5));  // 298.65 K − 273.15
+  // The README's example header.
+  const auto e = read("Elapsed (h),Cell current (mA),Terminal voltage (mV),Cell temp (K)\n"
+                      "0,0,3800,298.15\n0.001,2000,3780,298.65\n0.002,0,3799,298.15\n");
+  CHECK(e.time_s[2] == doctest::Approx(7.2));
+  CHECK(e.temperature_C[1] == doctest::Approx(25.5));
 }
 
 TEST_CASE("log header: the same symbol is a time or a temperature by its unit") {
@@ -64,7 +69,7 @@ TEST_CASE("log header: the same symbol is a time or a temperature by its unit") 
   CHECK(io::match_score("Index", io::ColumnRule{"current", io::Quantity::current, {"current", "i"}, {"current"}, {"i"}, true}) == 0);
 }
 
-TEST_CASE("log header: a step mode is read by its meaning, else from the current") {
+TEST_CASE("log header: a step mode is read by its meaning or else from the current") {
   io::CellLogOptions o;
   o.discharge_positive = true;
   const auto log = read(
@@ -98,7 +103,7 @@ TEST_CASE("log header: --columns FILE@SPEC applies to that log only") {
   CHECK(usage_of({"a.csv@time=1", "a.csv@time=2"}, files).find("log a.csv given columns twice") != std::string::npos);
 }
 
-TEST_CASE("fit cell: two logs, the second with its own --columns, fit into one model") {
+TEST_CASE("fit cell: two logs with --columns for the second fit into one model") {
   // The invented demo pulse test, and the same rows under headers no rule knows.
   const std::string demo = test::source_path("models/logs/demo-hppc-synthetic.csv");
   std::ifstream in(demo);
