@@ -159,9 +159,9 @@ std::string value_with_unit(double v, const Unit& u) { return format_number(v) +
 
 const std::vector<std::string>& bench_quantities() {
   static const std::vector<std::string> names = [] {
-    std::vector<std::string> n;
-    for (const auto& q : quantities()) n.push_back(q.name);
-    return n;
+    std::vector<ColumnRule> rules;
+    for (const auto& q : quantities()) rules.push_back(q.rule);
+    return rule_keys(rules);
   }();
   return names;
 }

@@ -207,11 +207,7 @@ void add_row_notes(const RawRows& raw, const CellLogOptions& opts, fit::CellLog&
 }  // namespace
 
 const std::vector<std::string>& cell_log_quantities() {
-  static const std::vector<std::string> q = [] {
-    std::vector<std::string> keys;
-    for (const auto& r : cell_rules()) keys.push_back(r.key);
-    return keys;
-  }();
+  static const std::vector<std::string> q = rule_keys(cell_rules());
   return q;
 }
 

@@ -67,11 +67,7 @@ UnitFactor factor(const std::string& file, const std::string& q, const Column& c
 }  // namespace
 
 const std::vector<std::string>& flight_log_quantities() {
-  static const std::vector<std::string> q = [] {
-    std::vector<std::string> keys;
-    for (const auto& r : flight_rules()) keys.push_back(r.key);
-    return keys;
-  }();
+  static const std::vector<std::string> q = rule_keys(flight_rules());
   return q;
 }
 

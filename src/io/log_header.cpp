@@ -103,6 +103,12 @@ std::string required_list(const std::vector<ColumnRule>& rules) {
 
 }  // namespace
 
+std::vector<std::string> rule_keys(const std::vector<ColumnRule>& rules) {
+  std::vector<std::string> keys;
+  for (const auto& r : rules) keys.push_back(r.key);
+  return keys;
+}
+
 const std::vector<std::string>& symbol_nouns() {
   static const std::vector<std::string> n = {"bat", "batt", "battery", "cell", "pack", "bus", "load", "term", "terminal", "meas"};
   return n;

@@ -24,6 +24,9 @@ struct ColumnRule {
   bool required = false;
 };
 
+/// The `--columns` keys of `rules`, in order.
+std::vector<std::string> rule_keys(const std::vector<ColumnRule>& rules);
+
 /// Nouns a quantity's symbol may stand before: "vcell", "ibat", "tpack" (common practice).
 const std::vector<std::string>& symbol_nouns();
 
