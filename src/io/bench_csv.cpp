@@ -168,31 +168,14 @@ const std::vector<std::string>& bench_quantities() {
 
 BenchColumns parse_bench_columns(const std::string& spec) {
   BenchColumns out;
-  std::string list;
-  for (const auto& n : bench_quantities()) list += (list.empty() ? "" : ", ") + n;
-  std::size_t start = 0;
-  while (start <= spec.size()) {
-    std::size_t end = spec.find(',', start);
-    if (end == std::string::npos) end = spec.size();
-    const std::string item = trim(spec.substr(start, end - start));
-    start = end + 1;
-    if (item.empty()) {
-      if (end == spec.size()) break;
-      continue;
-    }
+  for (const std::string& item : spec_items(spec)) {
     const auto eq = item.find('=');
     if (eq == std::string::npos)
       throw UsageError("--columns: entry without '=' (got \"" + item +
                        "\", expected quantity=HEADER or quantity=HEADER:UNIT)");
     const std::string qn = to_lower(trim(item.substr(0, eq)));
     std::string header = trim(item.substr(eq + 1));
-    const auto& names = bench_quantities();
-    if (std::find(names.begin(), names.end(), qn) == names.end()) {
-      const std::string near = nearest(qn, names);
-      throw UsageError("--columns: unknown quantity '" + qn + "'" +
-                       (near.empty() ? "" : "; did you mean '" + near + "'?") + " (expected one of " +
-                       list + ")");
-    }
+    check_quantity(qn, bench_quantities());
     BenchColumn bc;
     if (const auto colon = header.rfind(':'); colon != std::string::npos) {
       bc.unit = trim(header.substr(colon + 1));

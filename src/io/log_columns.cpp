@@ -145,31 +145,38 @@ HeaderName split_header(const std::string& raw) {
   return h;
 }
 
-std::map<std::string, ColumnRef> parse_column_spec(const std::string& spec,
-                                                   const std::vector<std::string>& known) {
-  std::map<std::string, ColumnRef> out;
-  std::string list;
-  for (const auto& k : known) list += (list.empty() ? "" : ", ") + k;
+std::vector<std::string> spec_items(const std::string& spec) {
+  std::vector<std::string> items;
   std::size_t start = 0;
   while (start <= spec.size()) {
     std::size_t end = spec.find(',', start);
     if (end == std::string::npos) end = spec.size();
-    const std::string item = trim(spec.substr(start, end - start));
+    std::string item = trim(spec.substr(start, end - start));
+    if (!item.empty()) items.push_back(std::move(item));
+    if (end == spec.size()) break;
     start = end + 1;
-    if (item.empty()) {
-      if (end == spec.size()) break;
-      continue;
-    }
+  }
+  return items;
+}
+
+void check_quantity(const std::string& q, const std::vector<std::string>& known) {
+  if (std::find(known.begin(), known.end(), q) != known.end()) return;
+  std::string list;
+  for (const auto& k : known) list += (list.empty() ? "" : ", ") + k;
+  const std::string near = nearest(q, known);
+  throw UsageError("--columns: unknown quantity '" + q + "'" + (near.empty() ? "" : "; did you mean '" + near + "'?") +
+                   " (expected one of " + list + ")");
+}
+
+std::map<std::string, ColumnRef> parse_column_spec(const std::string& spec,
+                                                   const std::vector<std::string>& known) {
+  std::map<std::string, ColumnRef> out;
+  for (const std::string& item : spec_items(spec)) {
     const auto eq = item.find('=');
     if (eq == std::string::npos || eq == 0 || eq + 1 == item.size())
       throw UsageError("--columns: '" + item + "' is not QUANTITY=COLUMN (expected e.g. current=I_mA or voltage=3)");
     const std::string q = to_lower(trim(item.substr(0, eq)));
-    if (std::find(known.begin(), known.end(), q) == known.end()) {
-      const std::string near = nearest(q, known);
-      throw UsageError("--columns: unknown quantity '" + q + "'" +
-                       (near.empty() ? "" : "; did you mean '" + near + "'?") + " (expected one of " +
-                       list + ")");
-    }
+    check_quantity(q, known);
     if (out.count(q)) throw UsageError("--columns: '" + q + "' given twice");
     std::string col = trim(item.substr(eq + 1));
     ColumnRef ref;
@@ -186,7 +193,6 @@ std::map<std::string, ColumnRef> parse_column_spec(const std::string& spec,
       ref.name = col;
     }
     out[q] = ref;
-    if (end == spec.size()) break;
   }
   return out;
 }

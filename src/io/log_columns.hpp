@@ -77,6 +77,12 @@ struct ColumnRef {
   std::string unit;                   ///< "" when not declared
 };
 
+/// The trimmed, non-empty comma-separated items of a `--columns` value.
+std::vector<std::string> spec_items(const std::string& spec);
+/// Throws UsageError `--columns: unknown quantity 'q'; did you mean '...'? (expected one of ...)`
+/// unless `q` is in `known`.
+void check_quantity(const std::string& q, const std::vector<std::string>& known);
+
 /// Parse "time=Time(s),current=3:mA,..." for the quantities in `known` (keys such as "time").
 /// Throws UsageError naming the bad item and, for an unknown quantity, the nearest known one.
 std::map<std::string, ColumnRef> parse_column_spec(const std::string& spec,
