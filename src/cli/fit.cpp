@@ -33,7 +33,8 @@ constexpr int kExitPoorFit = 4;
 
 struct FitCellOptions {
   std::vector<std::string> log_files;
-  std::string out_file, columns;
+  std::string out_file;
+  std::vector<std::string> columns;  ///< SPEC for every log, FILE@SPEC for one
   bool accept_poor_fit = false;
   bool discharge_positive = false, discharge_negative = false;
   std::optional<double> capacity_Ah, soc0, v_max_V, v_cutoff_V, mass_kg, i_cont_max_A, air_C;
@@ -56,14 +57,17 @@ battery::Cell reload(const nlohmann::ordered_json& j, const std::string& out_fil
 
 int run_fit_cell(const FitCellOptions& o) {
   io::CellLogOptions lo;
-  if (!o.columns.empty()) lo.columns = io::parse_column_spec(o.columns, io::cell_log_quantities());
+  const auto columns = io::parse_column_specs_per_file(o.columns, o.log_files, io::cell_log_quantities());
   if (o.discharge_positive) lo.discharge_positive = true;
   if (o.discharge_negative) lo.discharge_positive = false;
   lo.series = o.series;
   lo.parallel = o.parallel;
   lo.capacity_Ah = o.capacity_Ah;
   std::vector<fit::CellLog> logs;
-  for (const auto& f : o.log_files) logs.push_back(io::load_cell_log(f, lo));
+  for (std::size_t k = 0; k < o.log_files.size(); ++k) {
+    lo.columns = columns[k];
+    logs.push_back(io::load_cell_log(o.log_files[k], lo));
+  }
 
   fit::CellFitOptions fo;
   fo.rc_pairs = o.rc;
@@ -175,7 +179,10 @@ void add_fit_cell(CLI::App& fit, int& exit_code) {
       ->check(CLI::ExistingFile);
   c->add_option("--out", o->out_file, "write the cell model (JSON) to FILE")->required()->check(output_path());
   c->add_option("--columns", o->columns,
-                "column names or numbers: time=NAME[:UNIT],current=...,voltage=...[,temp=...][,exclude=...][,mode=...]");
+                "column names or numbers: time=NAME[:UNIT],current=...,voltage=...[,temp=...][,exclude=...][,mode=...]; "
+                "FILE@SPEC for one log only (repeat the option)")
+      ->allow_extra_args(false)
+      ->take_all();
   auto* dp = c->add_flag("--discharge-positive", o->discharge_positive, "the log's current is positive on discharge");
   auto* dn = c->add_flag("--discharge-negative", o->discharge_negative, "the log's current is positive on charge");
   dp->excludes(dn);

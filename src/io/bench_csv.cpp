@@ -8,6 +8,7 @@
 #include "core/suggest.hpp"
 #include "core/text.hpp"
 #include "io/json_reader.hpp"
+#include "io/log_header.hpp"
 
 namespace sortie::io {
 
@@ -19,34 +20,38 @@ struct Unit {
   std::string label;               ///< as shown in messages
 };
 
-struct Quantity {
+struct BenchQuantity {
   std::string name;
   std::string what;                ///< for messages: "thrust"
-  std::vector<std::string> bases;  ///< lower-case header names without the unit
+  ColumnRule rule;                 ///< how its header is recognised (io/log_header.hpp)
   std::vector<Unit> units;
   bool required = true;
 };
 
 // Throttle units: factor 0 marks a pulse width in µs (1000–2000 µs → 0–100 %), 1 a percent.
-const std::vector<Quantity>& quantities() {
-  static const std::vector<Quantity> q = {
-      {"throttle", "throttle", {"throttle", "pwm", "esc signal", "signal", "command"},
+// Names are matched as words and units, not as any one program's spellings: "Duty command
+// (µs)", "supply_voltage_V", "bus_A", "shaft speed [rpm]", "thrust_N" all work.
+const std::vector<BenchQuantity>& quantities() {
+  using Q = io::Quantity;
+  static const std::vector<BenchQuantity> q = {
+      {"throttle", "throttle",
+       {"throttle", Q::throttle, {"throttle", "duty", "pwm", "signal", "command", "cmd"}, {"throttle", "duty", "signal", "command", "pwm"}, {}, true},
        {{{"us", "µs", "μs"}, 0.0, "us"}, {{"pct", "%", "percent"}, 1.0, "%"}}},
-      {"voltage", "bus voltage", {"voltage", "bus voltage", "supply voltage", "bus"},
+      {"voltage", "bus voltage", {"voltage", Q::voltage, {"voltage", "v", "u", "volt", "volts", "bus"}, {"voltage", "volt"}, {}, true},
        {{{"v"}, 1.0, "V"}, {{"mv"}, 1e-3, "mV"}}},
-      {"current", "bus current", {"current", "bus current", "supply current", "bus"},
+      {"current", "bus current", {"current", Q::current, {"current", "i", "amps", "bus"}, {"current"}, {}, true},
        {{{"a"}, 1.0, "A"}, {{"ma"}, 1e-3, "mA"}}},
-      {"rpm", "rotation speed", {"rpm", "speed", "motor speed"},
+      {"rpm", "rotation speed", {"rpm", Q::speed, {"rpm", "speed", "n"}, {"speed", "rpm"}, {}, true},
        {{{"rpm", "rev/min", "1/min"}, 1.0, "rpm"},
         {{"rps", "rev/s"}, 60.0, "rps"},
         {{"rad/s"}, 60.0 / (2.0 * 3.14159265358979323846), "rad/s"}}},
-      {"thrust", "thrust", {"thrust"},
+      {"thrust", "thrust", {"thrust", Q::force, {"thrust"}, {"thrust"}, {}, true},
        {{{"n"}, 1.0, "N"},
         {{"g", "gf"}, 9.80665e-3, "g"},
         {{"kg", "kgf"}, 9.80665, "kgf"},
         {{"lbf"}, 4.4482216152605, "lbf"},
         {{"ozf"}, 0.27801385095378125, "ozf"}}},
-      {"torque", "torque", {"torque"},
+      {"torque", "torque", {"torque", Q::torque, {"torque"}, {"torque"}, {}, false},
        {{{"nm", "n·m", "n*m", "n.m", "n-m", "n m"}, 1.0, "N·m"},
         {{"nmm", "n·mm", "n*mm", "n.mm", "mnm", "mn·m", "mn*m"}, 1e-3, "N·mm"},
         {{"kgf·cm", "kgfcm", "kgf*cm", "kgf.cm", "kg·cm", "kgcm"}, 0.0980665, "kgf·cm"}},
@@ -55,47 +60,23 @@ const std::vector<Quantity>& quantities() {
   return q;
 }
 
-const Quantity& quantity(const std::string& name) {
+const BenchQuantity& quantity(const std::string& name) {
   for (const auto& q : quantities())
     if (q.name == name) return q;
   throw std::logic_error("unknown bench quantity " + name);
 }
 
-const Unit* find_unit(const Quantity& q, const std::string& unit) {
+const Unit* find_unit(const BenchQuantity& q, const std::string& unit) {
   const std::string u = to_lower(trim(unit));
   for (const auto& un : q.units)
     if (std::find(un.names.begin(), un.names.end(), u) != un.names.end()) return &un;
   return nullptr;
 }
 
-std::string unit_list(const Quantity& q) {
+std::string unit_list(const BenchQuantity& q) {
   std::string s;
   for (const auto& u : q.units) s += (s.empty() ? "" : ", ") + u.label;
   return s;
-}
-
-bool has_base(const Quantity& q, const std::string& base) {
-  return std::find(q.bases.begin(), q.bases.end(), base) != q.bases.end();
-}
-
-// A header split into its name and unit: "Thrust (gf)" → ("thrust", "gf"), "thrust_g" →
-// ("thrust", "g"), "rpm" → ("rpm", ""). `base_of` decides whether a '_' suffix is a unit: only
-// when the part before it is a known name (so "bus_voltage" stays whole).
-struct HeaderParts {
-  std::string base, unit;
-};
-HeaderParts split_header(const std::string& header) {
-  const std::string h = to_lower(trim(header));
-  for (auto [open, close] : {std::pair{'(', ')'}, std::pair{'[', ']'}}) {
-    if (!h.empty() && h.back() == close) {
-      const auto p = h.rfind(open);
-      if (p != std::string::npos) return {trim(h.substr(0, p)), trim(h.substr(p + 1, h.size() - p - 2))};
-    }
-  }
-  for (const auto& q : quantities())
-    if (has_base(q, h)) return {h, ""};
-  if (const auto p = h.rfind('_'); p != std::string::npos) return {h.substr(0, p), h.substr(p + 1)};
-  return {h, ""};
 }
 
 struct Found {
@@ -115,7 +96,7 @@ std::string header_text(const CsvFile& csv) {
   return "header \"" + have + "\"";
 }
 
-std::optional<Found> locate(const CsvFile& csv, const Quantity& q, const BenchColumns& columns) {
+std::optional<Found> locate(const CsvFile& csv, const BenchQuantity& q, const BenchColumns& columns) {
   if (auto it = columns.find(q.name); it != columns.end()) {
     const BenchColumn& bc = it->second;
     const auto col = csv.find_column({bc.header});
@@ -124,7 +105,7 @@ std::optional<Found> locate(const CsvFile& csv, const Quantity& q, const BenchCo
                   header_text(csv), "a column named '" + bc.header + "'");
     std::string unit = bc.unit;
     if (unit.empty()) unit = split_header(csv.header[*col]).unit;
-    if (unit.empty() && q.name == "rpm" && has_base(q, to_lower(trim(bc.header)))) unit = "rpm";
+    if (unit.empty() && q.name == "rpm" && split_header(bc.header).base == "rpm") unit = "rpm";
     if (unit.empty())
       header_fail(csv, "column '" + csv.header[*col] + "' declares no unit for " + q.what, "",
                   "--columns " + q.name + "=" + bc.header + ":UNIT with UNIT one of " + unit_list(q));
@@ -134,17 +115,20 @@ std::optional<Found> locate(const CsvFile& csv, const Quantity& q, const BenchCo
                   "'" + unit + "'", unit_list(q));
     return Found{*col, u};
   }
+  // The best-matching header cells (io/log_header.hpp): two equally good ones are refused.
   std::optional<Found> found;
+  int best = 0;
   for (std::size_t c = 0; c < csv.header.size(); ++c) {
-    const HeaderParts hp = split_header(csv.header[c]);
-    if (!has_base(q, hp.base)) continue;
+    const int score = match_score(csv.header[c], q.rule);
+    if (score == 0 || score < best) continue;
+    const HeaderName hp = split_header(csv.header[c]);
     std::string unit = hp.unit;
     if (unit.empty() && q.name == "rpm" && hp.base == "rpm") unit = "rpm";
     const Unit* u = find_unit(q, unit);
     // A name shared by two quantities ("bus") belongs to the one whose unit it carries.
     bool shared = false;
     for (const auto& other : quantities())
-      if (&other != &q && has_base(other, hp.base)) shared = true;
+      if (&other != &q && match_score(csv.header[c], other.rule) > 0) shared = true;
     if (!u && shared) continue;
     if (!u && unit.empty())
       header_fail(csv, "column '" + csv.header[c] + "' declares no unit for " + q.what, "",
@@ -153,15 +137,16 @@ std::optional<Found> locate(const CsvFile& csv, const Quantity& q, const BenchCo
     if (!u)
       header_fail(csv, "column '" + csv.header[c] + "': unknown unit for " + q.what,
                   "'" + unit + "'", unit_list(q));
-    if (found)
+    if (found && score == best)
       header_fail(csv, "two columns for " + q.what,
                   "'" + csv.header[found->col] + "' and '" + csv.header[c] + "'",
                   "one (or name it with --columns " + q.name + "=HEADER)");
     found = Found{c, u};
+    best = score;
   }
   if (!found && q.required) {
     std::string names;
-    for (const auto& b : q.bases) names += (names.empty() ? "'" : ", '") + b + "'";
+    for (const auto& b : q.rule.words) names += (names.empty() ? "'" : ", '") + b + "'";
     header_fail(csv, "missing column for " + q.what, header_text(csv),
                 "a column named " + names + " with its unit, or --columns " + q.name + "=HEADER:UNIT");
   }
@@ -174,45 +159,28 @@ std::string value_with_unit(double v, const Unit& u) { return format_number(v) +
 
 const std::vector<std::string>& bench_quantities() {
   static const std::vector<std::string> names = [] {
-    std::vector<std::string> n;
-    for (const auto& q : quantities()) n.push_back(q.name);
-    return n;
+    std::vector<ColumnRule> rules;
+    for (const auto& q : quantities()) rules.push_back(q.rule);
+    return rule_keys(rules);
   }();
   return names;
 }
 
 BenchColumns parse_bench_columns(const std::string& spec) {
   BenchColumns out;
-  std::string list;
-  for (const auto& n : bench_quantities()) list += (list.empty() ? "" : ", ") + n;
-  std::size_t start = 0;
-  while (start <= spec.size()) {
-    std::size_t end = spec.find(',', start);
-    if (end == std::string::npos) end = spec.size();
-    const std::string item = trim(spec.substr(start, end - start));
-    start = end + 1;
-    if (item.empty()) {
-      if (end == spec.size()) break;
-      continue;
-    }
+  for (const std::string& item : spec_items(spec)) {
     const auto eq = item.find('=');
     if (eq == std::string::npos)
       throw UsageError("--columns: entry without '=' (got \"" + item +
                        "\", expected quantity=HEADER or quantity=HEADER:UNIT)");
     const std::string qn = to_lower(trim(item.substr(0, eq)));
     std::string header = trim(item.substr(eq + 1));
-    const auto& names = bench_quantities();
-    if (std::find(names.begin(), names.end(), qn) == names.end()) {
-      const std::string near = nearest(qn, names);
-      throw UsageError("--columns: unknown quantity '" + qn + "'" +
-                       (near.empty() ? "" : "; did you mean '" + near + "'?") + " (expected one of " +
-                       list + ")");
-    }
+    check_quantity(qn, bench_quantities());
     BenchColumn bc;
     if (const auto colon = header.rfind(':'); colon != std::string::npos) {
       bc.unit = trim(header.substr(colon + 1));
       header = trim(header.substr(0, colon));
-      const Quantity& q = quantity(qn);
+      const BenchQuantity& q = quantity(qn);
       if (bc.unit.empty() || !find_unit(q, bc.unit))
         throw UsageError("--columns: unknown unit for " + qn + " (got '" + bc.unit + "', expected " +
                          unit_list(q) + ")");

@@ -2,14 +2,16 @@
 /// Thrust-bench CSV files: one row per throttle step of one rotor, read into a measured map
 /// (propulsion/bench_map.hpp).
 ///
-/// Quantities and the headers recognised for them (case-insensitive; the unit follows the name
-/// as `_unit`, ` (unit)` or ` [unit]`, e.g. `thrust_g`, `Thrust (gf)`, `Voltage [V]`):
-///   throttle  throttle | pwm | esc signal | signal | command      us, µs (1000–2000) | pct, %
-///   voltage   voltage | bus voltage | supply voltage | bus         V, mV
-///   current   current | bus current | supply current | bus         A, mA
-///   rpm       rpm (the name is the unit) | speed | motor speed      rpm, rev/min, rps, rad/s
-///   thrust    thrust                                              N, g, gf, kg, kgf, lbf, ozf
-///   torque    torque (optional)                          Nm, N·m, N*m, N.m, Nmm, mNm, kgf·cm
+/// Quantities and how headers are recognised (by words and units through io/log_header.hpp,
+/// case-insensitive; the unit follows the name as `_unit`, ` (unit)` or ` [unit]`, e.g.
+/// `thrust_N`, `Thrust (gf)`, `supply voltage [V]`):
+///   throttle  throttle | duty | pwm | signal | command, or a name holding one  us, µs (1000–2000) | pct, %
+///   voltage   voltage | volt | v | u | bus, or a name holding "volt"         V, mV
+///   current   current | i | amps | bus, or a name holding "current"          A, mA
+///   rpm       rpm (the name is the unit) | speed | n, or a name holding "speed"  rpm, rev/min, rps, rad/s
+///   thrust    thrust, or a name holding it                                    N, g, gf, kg, kgf, lbf, ozf
+///   torque    torque, or a name holding it (optional)            Nm, N·m, N*m, N.m, Nmm, mNm, kgf·cm
+/// A name two quantities share ("bus") belongs to the one whose unit it carries.
 /// (g and kg on a thrust bench mean gram-force and kilogram-force.) Any header can be named
 /// instead with --columns `quantity=HEADER[:UNIT]`, comma-separated; without `:UNIT` the unit
 /// comes from HEADER's own suffix.

@@ -5,6 +5,7 @@
 #include <charconv>
 #include <cmath>
 #include <fstream>
+#include <functional>
 #include <sstream>
 
 #include "core/error.hpp"
@@ -52,9 +53,9 @@ std::size_t LineCursor::count(const std::string& text) {
   return static_cast<std::size_t>(std::count(text.begin(), text.end(), '\n')) + 1;
 }
 
-std::vector<std::string> split_csv_line(const std::string& line) {
+std::vector<std::string> split_fields(const std::string& line, char delimiter) {
   std::vector<std::string> out;
-  out.reserve(static_cast<std::size_t>(std::count(line.begin(), line.end(), ',')) + 1);
+  out.reserve(static_cast<std::size_t>(std::count(line.begin(), line.end(), delimiter)) + 1);
   std::string cur;
   bool quoted = false;
   for (std::size_t i = 0; i < line.size(); ++i) {
@@ -70,7 +71,7 @@ std::vector<std::string> split_csv_line(const std::string& line) {
       }
     } else if (c == '"') {
       quoted = true;
-    } else if (c == ',') {
+    } else if (c == delimiter) {
       out.push_back(trim(cur));
       cur.clear();
     } else {
@@ -83,16 +84,13 @@ std::vector<std::string> split_csv_line(const std::string& line) {
   return out;
 }
 
-CsvFile parse_csv(const std::string& text, const std::string& name, bool has_header) {
-  CsvFile f;
-  f.file = name;
+std::vector<std::string> split_csv_line(const std::string& line) { return split_fields(line, ','); }
+
+void for_each_record(const std::string& text, char delimiter, const std::function<void(std::string)>& comment,
+                     const std::function<void(std::size_t, std::vector<std::string>)>& row) {
   LineCursor in(text);
-  const std::size_t n_lines = LineCursor::count(text);
-  f.rows.reserve(n_lines);
-  f.lines.reserve(n_lines);
   std::string line;
   std::size_t n = 0;
-  bool need_header = has_header;
   while (in.next(line)) {
     ++n;
     if (!line.empty() && line.back() == '\r') line.pop_back();
@@ -100,19 +98,32 @@ CsvFile parse_csv(const std::string& text, const std::string& name, bool has_hea
     const std::string t = trim(line);
     if (t.empty()) continue;
     if (t[0] == '#') {
-      f.comments.push_back(trim(t.substr(1)));
+      comment(trim(t.substr(1)));
       continue;
     }
-    auto fields = split_csv_line(line);
-    if (need_header) {
-      f.header = std::move(fields);
-      f.header_line = n;
-      need_header = false;
-      continue;
-    }
-    f.rows.push_back(std::move(fields));
-    f.lines.push_back(n);
+    row(n, split_fields(line, delimiter));
   }
+}
+
+CsvFile parse_csv(const std::string& text, const std::string& name, bool has_header) {
+  CsvFile f;
+  f.file = name;
+  const std::size_t n_lines = LineCursor::count(text);
+  f.rows.reserve(n_lines);
+  f.lines.reserve(n_lines);
+  bool need_header = has_header;
+  for_each_record(
+      text, ',', [&](std::string c) { f.comments.push_back(std::move(c)); },
+      [&](std::size_t n, std::vector<std::string> fields) {
+        if (need_header) {
+          f.header = std::move(fields);
+          f.header_line = n;
+          need_header = false;
+          return;
+        }
+        f.rows.push_back(std::move(fields));
+        f.lines.push_back(n);
+      });
   if (has_header && f.header.empty()) throw InputError(name + ": no header line (the file is empty)");
   return f;
 }

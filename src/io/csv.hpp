@@ -4,6 +4,7 @@
 /// CRLF line ends are accepted; a field may be double-quoted.
 #include <cstddef>
 #include <filesystem>
+#include <functional>
 #include <optional>
 #include <string>
 #include <vector>
@@ -40,6 +41,16 @@ CsvFile parse_csv(const std::string& text, const std::string& name, bool has_hea
 
 /// Split one CSV line into trimmed fields.
 std::vector<std::string> split_csv_line(const std::string& line);
+/// Split one line at `delimiter` into trimmed fields; double quotes group (`""` is a quote);
+/// trailing empty fields are dropped.
+std::vector<std::string> split_fields(const std::string& line, char delimiter);
+
+/// The one record walker of every delimited reader (CsvFile, DelimitedFile): for each line of
+/// `text`, a CR line end and a leading UTF-8 byte-order mark taken off, blank lines skipped,
+/// `comment` gets the text after '#' of a comment line and `row` the 1-based line number and
+/// fields of any other line.
+void for_each_record(const std::string& text, char delimiter, const std::function<void(std::string)>& comment,
+                     const std::function<void(std::size_t, std::vector<std::string>)>& row);
 
 /// The whole file as text, read once into its final buffer (a large log is not copied again).
 /// Throws InputError when it cannot be opened. Does not call note_input.

@@ -8,6 +8,7 @@
 #include "core/error.hpp"
 #include "core/text.hpp"
 #include "io/json_reader.hpp"
+#include "io/log_header.hpp"
 
 namespace sortie::io {
 
@@ -15,78 +16,21 @@ namespace {
 
 const double kNaN = std::numeric_limits<double>::quiet_NaN();
 
-const std::map<std::string, std::vector<std::string>>& recognised() {
-  static const std::map<std::string, std::vector<std::string>> names = {
-      {"time", {"time", "t", "elapsed", "elapsedtime", "timestamp", "flighttime"}},
-      {"voltage", {"voltage", "v", "vbat", "packvoltage", "batteryvoltage", "volt", "volts", "vterminal", "terminalvoltage"}},
-      {"current", {"current", "i", "ibat", "packcurrent", "batterycurrent", "curr", "amps"}},
-      {"height", {"height", "altitude", "alt", "relativealtitude", "agl"}},
-      {"speed", {"speed", "airspeed", "groundspeed", "gs", "ias", "tas"}},
-      {"throttle", {"throttle", "thr", "duty"}},
-      {"temp", {"temperature", "temp", "packtemperature", "batterytemperature", "tbat"}},
+/// The flight-log quantities and how their headers are recognised (io/log_header.hpp).
+const std::vector<ColumnRule>& flight_rules() {
+  static const std::vector<ColumnRule> rules = {
+      {"time", Quantity::time, {"time", "t", "elapsed", "timestamp", "flighttime"}, {"time"}, {}, true},
+      {"voltage", Quantity::voltage, {"voltage", "v", "volt", "volts"}, {"voltage", "volt"}, {"v"}, true},
+      {"current", Quantity::current, {"current", "i", "curr", "amps"}, {"current"}, {"i"}, true},
+      {"height", std::nullopt, {"height", "altitude", "alt", "agl"}, {"height", "altitude"}, {}, false},
+      {"speed", std::nullopt, {"speed", "airspeed", "groundspeed", "gs", "ias", "tas"}, {"speed"}, {}, false},
+      {"throttle", Quantity::throttle, {"throttle", "thr", "duty"}, {"throttle"}, {}, false},
+      {"temp", Quantity::temperature, {"temperature", "temp"}, {"temp"}, {"t"}, false},
   };
-  return names;
+  return rules;
 }
 
-struct Column {
-  std::size_t index = 0;
-  std::string title;
-  std::string unit;
-};
-
-bool header_matches(const std::string& cell, const std::string& wanted) {
-  if (to_lower(cell) == to_lower(wanted)) return true;
-  const std::string n = normalise_name(wanted);
-  return !n.empty() && (normalise_name(cell) == n || split_header(cell).base == n);
-}
-
-bool required(const std::string& q) { return q == "time" || q == "voltage" || q == "current"; }
-
-std::optional<std::map<std::string, Column>> resolve(const std::vector<std::string>& header,
-                                                     const std::map<std::string, ColumnRef>& cols) {
-  std::map<std::string, Column> out;
-  for (const auto& q : flight_log_quantities()) {
-    Column c;
-    bool found = false;
-    if (auto it = cols.find(q); it != cols.end()) {
-      const ColumnRef& ref = it->second;
-      if (ref.number) {
-        c.index = *ref.number - 1;
-        c.title = "column " + std::to_string(*ref.number);
-        if (c.index < header.size()) c.unit = split_header(header[c.index]).unit;
-        found = true;
-      } else {
-        for (std::size_t i = 0; i < header.size() && !found; ++i)
-          if (header_matches(header[i], ref.name)) {
-            c.index = i;
-            c.title = "'" + header[i] + "'";
-            c.unit = split_header(header[i]).unit;
-            found = true;
-          }
-      }
-      if (found && !ref.unit.empty()) c.unit = ref.unit;
-    } else {
-      for (const auto& name : recognised().at(q)) {
-        for (std::size_t i = 0; i < header.size() && !found; ++i) {
-          const HeaderName h = split_header(header[i]);
-          if (h.base == name) {
-            c.index = i;
-            c.title = "'" + header[i] + "'";
-            c.unit = h.unit;
-            found = true;
-          }
-        }
-        if (found) break;
-      }
-    }
-    if (!found) {
-      if (required(q)) return std::nullopt;
-      continue;
-    }
-    out[q] = c;
-  }
-  return out;
-}
+using Column = ResolvedColumn;
 
 /// SI factor for a column; height takes m, ft, km (no log quantity covers lengths).
 UnitFactor factor(const std::string& file, const std::string& q, const Column& c) {
@@ -123,7 +67,7 @@ UnitFactor factor(const std::string& file, const std::string& q, const Column& c
 }  // namespace
 
 const std::vector<std::string>& flight_log_quantities() {
-  static const std::vector<std::string> q = {"time", "voltage", "current", "height", "speed", "throttle", "temp"};
+  static const std::vector<std::string> q = rule_keys(flight_rules());
   return q;
 }
 
@@ -133,32 +77,9 @@ FlightLog read_flight_log(const DelimitedFile& f, const std::map<std::string, Co
   log.comments = f.comments;
   if (f.rows.empty()) throw InputError(f.file + ": no data rows (the file is empty)");
   const bool decimal_comma = f.delimiter != ',';
-  std::optional<std::size_t> header_row;
-  std::map<std::string, Column> cols;
-  const bool all_numbered = columns.count("time") && columns.count("voltage") && columns.count("current") &&
-                            std::all_of(columns.begin(), columns.end(),
-                                        [](const auto& kv) { return kv.second.number.has_value(); });
-  if (all_numbered) {
-    cols = *resolve({}, columns);
-    const auto& first = f.rows.front();
-    const std::size_t ti = cols.at("time").index;
-    if (ti < first.size() && !parse_log_time(first[ti], decimal_comma)) {
-      header_row = 0;
-      cols = *resolve(first, columns);
-    }
-  } else {
-    const std::size_t scan = std::min<std::size_t>(f.rows.size(), 200);
-    for (std::size_t r = 0; r < scan && !header_row; ++r)
-      if (auto c = resolve(f.rows[r], columns)) {
-        header_row = r;
-        cols = *c;
-      }
-    if (!header_row)
-      throw InputError(f.file + ": no header line naming the time, voltage and current columns in the first " +
-                       std::to_string(std::min<std::size_t>(f.rows.size(), 200)) +
-                       " lines (expected names such as Time(s), Voltage(V), Current(A), or --columns "
-                       "time=...,voltage=...,current=...)");
-  }
+  const LogHeader h = find_log_header(f, flight_rules(), columns, "Time(s), Voltage(V), Current(A)");
+  const std::optional<std::size_t> header_row = h.row;
+  const ResolvedColumns& cols = h.columns;
   std::map<std::string, UnitFactor> fac;
   for (const auto& [q, c] : cols) fac[q] = factor(f.file, q, c);
   const std::size_t first_data = header_row ? *header_row + 1 : 0;

@@ -17,36 +17,6 @@ namespace sortie::io {
 
 namespace {
 
-/// Split on a delimiter other than the comma; double quotes group as in CSV.
-std::vector<std::string> split_on(const std::string& line, char delim) {
-  std::vector<std::string> out;
-  std::string cur;
-  bool quoted = false;
-  for (std::size_t i = 0; i < line.size(); ++i) {
-    const char c = line[i];
-    if (quoted) {
-      if (c == '"' && i + 1 < line.size() && line[i + 1] == '"') {
-        cur += '"';
-        ++i;
-      } else if (c == '"') {
-        quoted = false;
-      } else {
-        cur += c;
-      }
-    } else if (c == '"') {
-      quoted = true;
-    } else if (c == delim) {
-      out.push_back(trim(cur));
-      cur.clear();
-    } else {
-      cur += c;
-    }
-  }
-  out.push_back(trim(cur));
-  while (out.size() > 1 && out.back().empty()) out.pop_back();
-  return out;
-}
-
 /// The delimiter of the file: of ',', ';' and tab, the one that splits most of the first 50
 /// non-comment lines into the same number (above one) of fields; comma on a tie. A decimal comma
 /// in a semicolon file gives varying comma counts, so it does not win.
@@ -73,7 +43,8 @@ char sniff_delimiter(const std::string& text) {
 
 const std::vector<std::string> kUnitWords = {
     "s", "ms", "min", "h", "a", "ma", "v", "mv", "c", "degc", "°c", "k", "pct", "percent", "us",
-    "rpm", "n", "g", "gf", "kg", "kgf", "nm", "ncm", "mnm", "w", "rad/s"};
+    "rpm", "n", "g", "gf", "kg", "kgf", "nm", "ncm", "mnm", "w", "rad/s", "µs", "lbf", "ozf", "rps",
+    "nmm", "kgfcm", "hz", "1/min"};
 
 bool is_unit_word(const std::string& u) {
   const std::string l = to_lower(u);
@@ -121,25 +92,15 @@ DelimitedFile parse_delimited(const std::string& text, const std::string& name) 
   DelimitedFile f;
   f.file = name;
   f.delimiter = sniff_delimiter(text);
-  LineCursor in(text);
   const std::size_t n_lines = LineCursor::count(text);
   f.rows.reserve(n_lines);
   f.lines.reserve(n_lines);
-  std::string line;
-  std::size_t n = 0;
-  while (in.next(line)) {
-    ++n;
-    if (!line.empty() && line.back() == '\r') line.pop_back();
-    if (n == 1 && line.size() >= 3 && line.compare(0, 3, "\xEF\xBB\xBF") == 0) line.erase(0, 3);
-    const std::string t = trim(line);
-    if (t.empty()) continue;
-    if (t[0] == '#') {
-      f.comments.push_back(trim(t.substr(1)));
-      continue;
-    }
-    f.rows.push_back(f.delimiter == ',' ? split_csv_line(line) : split_on(line, f.delimiter), name);
-    f.lines.push_back(n);
-  }
+  for_each_record(
+      text, f.delimiter, [&](std::string c) { f.comments.push_back(std::move(c)); },
+      [&](std::size_t n, std::vector<std::string> fields) {
+        f.rows.push_back(fields, name);
+        f.lines.push_back(n);
+      });
   return f;
 }
 
@@ -184,31 +145,38 @@ HeaderName split_header(const std::string& raw) {
   return h;
 }
 
-std::map<std::string, ColumnRef> parse_column_spec(const std::string& spec,
-                                                   const std::vector<std::string>& known) {
-  std::map<std::string, ColumnRef> out;
-  std::string list;
-  for (const auto& k : known) list += (list.empty() ? "" : ", ") + k;
+std::vector<std::string> spec_items(const std::string& spec) {
+  std::vector<std::string> items;
   std::size_t start = 0;
   while (start <= spec.size()) {
     std::size_t end = spec.find(',', start);
     if (end == std::string::npos) end = spec.size();
-    const std::string item = trim(spec.substr(start, end - start));
+    std::string item = trim(spec.substr(start, end - start));
+    if (!item.empty()) items.push_back(std::move(item));
+    if (end == spec.size()) break;
     start = end + 1;
-    if (item.empty()) {
-      if (end == spec.size()) break;
-      continue;
-    }
+  }
+  return items;
+}
+
+void check_quantity(const std::string& q, const std::vector<std::string>& known) {
+  if (std::find(known.begin(), known.end(), q) != known.end()) return;
+  std::string list;
+  for (const auto& k : known) list += (list.empty() ? "" : ", ") + k;
+  const std::string near = nearest(q, known);
+  throw UsageError("--columns: unknown quantity '" + q + "'" + (near.empty() ? "" : "; did you mean '" + near + "'?") +
+                   " (expected one of " + list + ")");
+}
+
+std::map<std::string, ColumnRef> parse_column_spec(const std::string& spec,
+                                                   const std::vector<std::string>& known) {
+  std::map<std::string, ColumnRef> out;
+  for (const std::string& item : spec_items(spec)) {
     const auto eq = item.find('=');
     if (eq == std::string::npos || eq == 0 || eq + 1 == item.size())
       throw UsageError("--columns: '" + item + "' is not QUANTITY=COLUMN (expected e.g. current=I_mA or voltage=3)");
     const std::string q = to_lower(trim(item.substr(0, eq)));
-    if (std::find(known.begin(), known.end(), q) == known.end()) {
-      const std::string near = nearest(q, known);
-      throw UsageError("--columns: unknown quantity '" + q + "'" +
-                       (near.empty() ? "" : "; did you mean '" + near + "'?") + " (expected one of " +
-                       list + ")");
-    }
+    check_quantity(q, known);
     if (out.count(q)) throw UsageError("--columns: '" + q + "' given twice");
     std::string col = trim(item.substr(eq + 1));
     ColumnRef ref;
@@ -225,8 +193,37 @@ std::map<std::string, ColumnRef> parse_column_spec(const std::string& spec,
       ref.name = col;
     }
     out[q] = ref;
-    if (end == spec.size()) break;
   }
+  return out;
+}
+
+std::vector<std::map<std::string, ColumnRef>> parse_column_specs_per_file(const std::vector<std::string>& values,
+                                                                          const std::vector<std::string>& files,
+                                                                          const std::vector<std::string>& known) {
+  std::optional<std::map<std::string, ColumnRef>> general;
+  std::vector<std::optional<std::map<std::string, ColumnRef>>> own(files.size());
+  for (const auto& value : values) {
+    const auto at = value.find('@');
+    const bool for_file = at != std::string::npos && value.substr(0, at).find('=') == std::string::npos;
+    if (!for_file) {
+      if (general) throw UsageError("--columns: given twice for every log (got \"" + value + "\", expected one SPEC and FILE@SPEC for single logs)");
+      general = parse_column_spec(value, known);
+      continue;
+    }
+    const std::string file = trim(value.substr(0, at));
+    std::optional<std::size_t> k;
+    for (std::size_t i = 0; i < files.size() && !k; ++i)
+      if (files[i] == file || std::filesystem::path(files[i]).filename().string() == file) k = i;
+    if (!k) {
+      std::string list;
+      for (const auto& f : files) list += (list.empty() ? "" : ", ") + f;
+      throw UsageError("--columns: '" + file + "@' names no log of this run (got \"" + value + "\", expected one of " + list + ")");
+    }
+    if (own[*k]) throw UsageError("--columns: log " + files[*k] + " given columns twice");
+    own[*k] = parse_column_spec(value.substr(at + 1), known);
+  }
+  std::vector<std::map<std::string, ColumnRef>> out;
+  for (std::size_t i = 0; i < files.size(); ++i) out.push_back(own[i] ? *own[i] : general.value_or(std::map<std::string, ColumnRef>{}));
   return out;
 }
 

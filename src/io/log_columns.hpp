@@ -77,10 +77,25 @@ struct ColumnRef {
   std::string unit;                   ///< "" when not declared
 };
 
+/// The trimmed, non-empty comma-separated items of a `--columns` value.
+std::vector<std::string> spec_items(const std::string& spec);
+/// Throws UsageError `--columns: unknown quantity 'q'; did you mean '...'? (expected one of ...)`
+/// unless `q` is in `known`.
+void check_quantity(const std::string& q, const std::vector<std::string>& known);
+
 /// Parse "time=Time(s),current=3:mA,..." for the quantities in `known` (keys such as "time").
 /// Throws UsageError naming the bad item and, for an unknown quantity, the nearest known one.
 std::map<std::string, ColumnRef> parse_column_spec(const std::string& spec,
                                                    const std::vector<std::string>& known);
+
+/// `--columns` values for several logs, one map per file in `files`' order. Each value is
+/// either `SPEC` (every log) or `FILE@SPEC` (that log only, in place of the general one), FILE
+/// as given on the command line or its file name. A value whose text before the first '@' holds
+/// no '=' names a file; one that is not among `files`, a file named twice, or two general values
+/// are a UsageError.
+std::vector<std::map<std::string, ColumnRef>> parse_column_specs_per_file(const std::vector<std::string>& values,
+                                                                          const std::vector<std::string>& files,
+                                                                          const std::vector<std::string>& known);
 
 /// The kinds of quantity a log column can hold, each with its accepted units.
 enum class Quantity { time, current, voltage, temperature, throttle, speed, force, torque, power };

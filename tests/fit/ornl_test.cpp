@@ -5,13 +5,13 @@
 //
 // The model is fitted on the 25 °C pulse test (hppc-25C.csv) alone, then run on the measured
 // constant-current discharges at 1C, 2C and 3C (30.6, 61.2, 91.8 A; discharge-*.csv, several
-// DCHG sections per file, each after a full CC-CV charge and a rest) and compared with them:
+// discharge sections per file, each after a full CC-CV charge and a rest) and compared with them:
 //   - voltage RMSE over each section, the model re-simulated on the section's current from full;
 //   - time to 3.0 V at the section's current against the measured duration (SOURCE.md lists
 //     3563–3569 s, 1758–1762 s and 1113–1125 s).
-// Columns (SOURCE.md): Exclude, Time(s), Cycle, Loop×3, Step, StepTime(s), Current(A),
-// Voltage(V), Power(W), Capacity(Ah), Energy(Wh), Mode, Data; current positive on charge; Mode is
-// REST, CHRG or DCHG; the discharge files have no header.
+// Columns by number (SOURCE.md lists them): 1 an exclude flag, 2 the time, 9 the current (positive
+// on charge), 10 the voltage, 14 the step mode, which the reader turns into rest, charge or
+// discharge by its meaning; the discharge files have no header.
 #include <doctest/doctest.h>
 
 #include <cmath>
@@ -37,7 +37,7 @@ struct Section {
   std::vector<double> time_s, current_A, voltage_V;  ///< time from one sample before the first row
 };
 
-/// The DCHG runs of a discharge file, each with the rest sample before it as its start.
+/// The discharge runs of a discharge file, each with the rest sample before it as its start.
 std::vector<Section> dchg_sections(const std::string& file) {
   io::CellLogOptions o;
   o.columns = io::parse_column_spec("time=2,current=9,voltage=10,exclude=1,mode=14", io::cell_log_quantities());
@@ -45,14 +45,14 @@ std::vector<Section> dchg_sections(const std::string& file) {
   const fit::CellLog log = io::load_cell_log(kDir + file, o);
   std::vector<Section> out;
   for (std::size_t k = 0; k + 1 < log.size(); ++k) {
-    if (log.mode[k] != "DCHG" || (k > 0 && log.mode[k - 1] == "DCHG")) continue;
+    if (log.mode[k] != "discharge" || (k > 0 && log.mode[k - 1] == "discharge")) continue;
     Section s;
     // The step began one sample interval before its first row (StepTime(s) counts from there).
     const double t0 = k > 0 ? log.time_s[k - 1] : log.time_s[0] - (log.time_s[1] - log.time_s[0]);
     s.time_s.push_back(0.0);
     s.current_A.push_back(0.0);
     s.voltage_V.push_back(log.voltage_V[k > 0 ? k - 1 : 0]);
-    for (std::size_t j = k; j < log.size() && log.mode[j] == "DCHG"; ++j) {
+    for (std::size_t j = k; j < log.size() && log.mode[j] == "discharge"; ++j) {
       s.time_s.push_back(log.time_s[j] - t0);
       s.current_A.push_back(log.current_A[j]);
       s.voltage_V.push_back(log.voltage_V[j]);

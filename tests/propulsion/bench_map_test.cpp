@@ -133,7 +133,7 @@ TEST_CASE("bench CSV: headers and units are recognised") {
   // Units converted: 1 gf = 9.80665e-3 N, 1 kgf·cm = 0.0980665 N·m, 1 lbf = 4.4482216152605 N
   // (NIST SP 811, 2008, appendix B; from memory, and 1 lbf is exact by definition); pulse width 1000–2000 µs → 0–100 %.
   const std::string text =
-      "ESC signal (µs),Voltage [V],Current (mA),Motor speed (rpm),Thrust (gf),Torque (kgf·cm)\n"
+      "Duty command (µs),Supply voltage [V],Current (mA),Shaft speed (rpm),Thrust (gf),Torque (kgf·cm)\n"
       "1250,12.0,2000,3000,400,0.5\n"
       "1500,11.9,6000,5000,1100,1.4\n";
   const BenchMap m = io::read_bench_csv(io::parse_csv(text, "b.csv"));
