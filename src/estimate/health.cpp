@@ -7,6 +7,7 @@
 #include <Eigen/Dense>
 
 #include "battery/thevenin.hpp"
+#include "estimate/pack_step.hpp"
 #include "fit/levenberg_marquardt.hpp"
 
 namespace sortie::estimate {
@@ -19,36 +20,16 @@ battery::Pack unit_soh(battery::Pack p) {
   return p;
 }
 
-/// The model of health.hpp on one flight, with the pack tables built once.
+/// The model of health.hpp on one flight (estimate/pack_step), with the pack tables built once.
 void model_voltage(const battery::PackModel& m, const sim::MeasuredFlight& f, double c, double r,
                    double soc0, std::vector<double>& v) {
   const std::size_t n = f.time_s.size();
   v.resize(n);
-  const double cap = m.capacity_C * c;
-  double soc = soc0, v1 = 0.0, v2 = 0.0, temp = m.t0_C;
+  const PackStep ps{m, c, r};
+  StepState x = ps.start(soc0);
   for (std::size_t k = 0; k < n; ++k) {
-    const double i = f.current_A[k];
-    if (k > 0) {
-      const double dt = f.time_s[k] - f.time_s[k - 1];
-      const double s = m.r_scale(temp);
-      double heat = 0.0;
-      for (std::size_t p = 0; p < m.n_rc; ++p) {
-        const double rk = m.r_pack_ohm[p](soc) * s, tau = m.tau_s[p](soc);
-        const double e = std::exp(-dt / tau);
-        double& vp = p == 0 ? v1 : v2;
-        vp = vp * e + rk * i * (1.0 - e);
-        if (rk > 0.0) heat += vp * vp / rk;
-      }
-      if (m.thermal) {
-        const double r0_cells = (m.r0_pack_ohm(soc) - m.wiring_ohm) * r * s;
-        heat += i * i * r0_cells;
-        const double per_cell = heat / (m.series * m.parallel);
-        temp += dt * (per_cell - m.hA_W_per_K * (temp - m.air_C)) / m.heat_capacity_J_per_K;
-      }
-      soc -= i * dt / cap;
-    }
-    const double r0 = (m.r0_pack_ohm(soc) - m.wiring_ohm) * r * m.r_scale(temp) + m.wiring_ohm;
-    v[k] = m.ocv_pack(soc) - v1 - v2 - r0 * i;
+    if (k > 0) ps.advance(x, f.current_A[k], f.time_s[k] - f.time_s[k - 1]);
+    v[k] = ps.voltage(x, f.current_A[k]);
   }
 }
 

@@ -3,7 +3,7 @@
 /// block (battery::Pack::soh_capacity, soh_resistance) that make the pack model's voltage, driven
 /// by the logged current, best match the logged voltage.
 ///
-/// Model (per log row k, sample k's current I_k flowing over (t_{k-1}, t_k]):
+/// Model (estimate/pack_step; per log row k, sample k's current I_k flowing over (t_{k-1}, t_k]):
 ///   SoC_k  = SoC_0 − q_k / (c·C_rated),     q_k = Σ_{j≤k} I_j·(t_j − t_{j−1})
 ///   v_i,k  = v_i,k−1·e^{−Δt/τ_i} + R_i·I_k·(1 − e^{−Δt/τ_i})   (exact for a constant current)
 ///   V_k    = S·OCV(SoC_k) − v_1,k − v_2,k − (r·R0_cells(SoC_k)·s_T + R_wiring)·I_k
