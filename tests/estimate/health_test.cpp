@@ -63,7 +63,7 @@ sim::MeasuredFlight fly(const sim::Mission& base, const Truth& t, unsigned seed)
 
 TEST_SUITE("estimate") {
 
-TEST_CASE("health: capacity 0.85 and resistance 1.3 recovered from one noisy simulated flight, several seeds") {
+TEST_CASE("health: capacity 0.85 and resistance 1.3 recovered from one noisy simulated flight - several seeds") {
   const io::LoadedProfile lp = quad();
   const battery::Pack pack = field_pack(lp.mission);
   const Truth t;
@@ -95,7 +95,7 @@ TEST_CASE("health: capacity 0.85 and resistance 1.3 recovered from one noisy sim
   CHECK(z2_r / seeds < 3.0);
 }
 
-TEST_CASE("health: a shallow log and a constant-current log are refused, saying why") {
+TEST_CASE("health: a shallow log and a constant-current log are refused - saying why") {
   const io::LoadedProfile lp = quad();
   const battery::Pack pack = field_pack(lp.mission);
   const sim::MeasuredFlight f = fly(lp.mission, Truth{}, 7);
@@ -138,7 +138,7 @@ TEST_CASE("health: the model of the estimator on its own voltage gives the facto
   CHECK(e.flights[0].soc0 == doctest::Approx(0.9).epsilon(1e-5));
 }
 
-TEST_CASE("health: two flights of one pack share c and r, each with its own start SoC") {
+TEST_CASE("health: two flights of one pack share c and r - each with its own start SoC") {
   const io::LoadedProfile lp = quad();
   const battery::Pack pack = field_pack(lp.mission);
   Truth a, b;
