@@ -12,5 +12,7 @@ void add_fly_command(CLI::App& app, int& exit_code);
 void add_compare_command(CLI::App& app, int& exit_code);
 void add_route_command(CLI::App& app, int& exit_code);
 void add_check_command(CLI::App& app, int& exit_code);
+void add_health_command(CLI::App& app, int& exit_code);
+void add_remaining_command(CLI::App& app, int& exit_code);
 
 }  // namespace sortie::cli
