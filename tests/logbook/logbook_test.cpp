@@ -4,6 +4,7 @@
 #include <unistd.h>
 
 #include <filesystem>
+#include <cstdio>
 #include <fstream>
 #include <string>
 
@@ -243,14 +244,25 @@ TEST_CASE("logbook: two processes writing at once leave every row and no error")
     Database db(path, true);
     pack_id = db.add_pack(demo_pack());
   }
-  constexpr int kEach = 150;
+  constexpr int kEach = 400;
+  int go[2];
+  REQUIRE(pipe(go) == 0);
   const pid_t child = fork();
   REQUIRE(child >= 0);
   const char* who = child == 0 ? "child" : "parent";
   int failures = 0;
   try {
-    // Each process opens its own connection, as two sortie runs would.
+    // Each process opens its own connection, as two sortie runs would, and both start writing
+    // when the parent closes the pipe.
     Database db(path, true);
+    char byte = 0;
+    if (child == 0) {
+      close(go[1]);
+      (void)!read(go[0], &byte, 1);
+    } else {
+      close(go[0]);
+      close(go[1]);
+    }
     for (int i = 0; i < kEach; ++i) {
       const std::string hash = std::string(who) + "-" + std::to_string(i);
       if (i % 10 == 0) {
@@ -265,7 +277,8 @@ TEST_CASE("logbook: two processes writing at once leave every row and no error")
         db.add_flight(demo_flight(pack_id, hash));
       }
     }
-  } catch (...) {
+  } catch (const std::exception& e) {
+    if (child == 0) std::fprintf(stderr, "child: %s\n", e.what());
     ++failures;
   }
   if (child == 0) _exit(failures == 0 ? 0 : 1);
