@@ -12,5 +12,6 @@ void add_fly_command(CLI::App& app, int& exit_code);
 void add_compare_command(CLI::App& app, int& exit_code);
 void add_route_command(CLI::App& app, int& exit_code);
 void add_check_command(CLI::App& app, int& exit_code);
+void add_logbook_command(CLI::App& app, int& exit_code);
 
 }  // namespace sortie::cli

@@ -83,3 +83,48 @@ std::string date_from_days(long z) {
 }
 
 }  // namespace sortie::logbook
+
+namespace sortie::logbook {
+
+namespace {
+
+void fit_factor(FactorTrend& t, const std::vector<double>& cycles, const std::vector<double>& days,
+                const std::vector<double>& y) {
+  t.by_cycle = fit_line(cycles, y);
+  t.by_day = fit_line(days, y);
+  if (t.by_cycle) t.cycle_at_limit = crossing(*t.by_cycle, t.limit, t.falling);
+  if (t.by_day) t.day_at_limit = crossing(*t.by_day, t.limit, t.falling);
+}
+
+}  // namespace
+
+// Unweighted on purpose: the σ of each estimate is its fit's own, from one flight's residuals; the
+// scatter between flights (charge state, temperature, the log's noise) is larger, and the
+// residual spread of the line measures it directly.
+PackTrend pack_trend(const std::vector<EstimateRecord>& estimates, double capacity_limit, double resistance_limit) {
+  PackTrend t;
+  t.points = estimates;
+  t.capacity.limit = capacity_limit;
+  t.capacity.falling = true;
+  t.resistance.limit = resistance_limit;
+  t.resistance.falling = false;
+  std::vector<double> cycles, days, cap, res;
+  for (const auto& e : estimates) {
+    const auto d = days_from_date(e.date);
+    if (!d) continue;
+    cycles.push_back(e.cycle);
+    days.push_back(double(*d));
+    cap.push_back(e.capacity);
+    res.push_back(e.resistance);
+  }
+  if (cycles.size() < 3) {
+    t.why_no_fit = "a trend needs at least 3 estimates (got " + std::to_string(cycles.size()) + ")";
+    return t;
+  }
+  fit_factor(t.capacity, cycles, days, cap);
+  fit_factor(t.resistance, cycles, days, res);
+  if (!t.capacity.by_cycle) t.why_no_fit = "every estimate is at the same cycle";
+  return t;
+}
+
+}  // namespace sortie::logbook

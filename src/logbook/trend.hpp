@@ -38,3 +38,27 @@ std::optional<long> days_from_date(const std::string& ymd);
 std::string date_from_days(long days);
 
 }  // namespace sortie::logbook
+
+#include "logbook/logbook.hpp"
+
+namespace sortie::logbook {
+
+/// One factor's trend (capacity or resistance) against cycles and against days.
+struct FactorTrend {
+  double limit = 0.0;
+  bool falling = true;                 ///< capacity falls to its limit, resistance rises
+  std::optional<LineFit> by_cycle, by_day;
+  Crossing cycle_at_limit, day_at_limit;  ///< day counts from 1970-01-01
+};
+
+struct PackTrend {
+  std::vector<EstimateRecord> points;  ///< in cycle order
+  FactorTrend capacity, resistance;
+  std::string why_no_fit;              ///< when fewer than three estimates or one cycle
+};
+
+/// Lines through the estimates (unweighted: each estimate counts once; see trend.cpp) and where
+/// they reach `capacity_limit` and `resistance_limit`.
+PackTrend pack_trend(const std::vector<EstimateRecord>& estimates, double capacity_limit, double resistance_limit);
+
+}  // namespace sortie::logbook
