@@ -6,6 +6,7 @@
 #include "core/error.hpp"
 #include "io/battery_json.hpp"
 #include "io/json_reader.hpp"
+#include "cli/number_option.hpp"
 
 namespace sortie::cli {
 
@@ -44,6 +45,31 @@ LogbookPack logbook_pack(logbook::Database& db, std::int64_t id, bool apply_soh)
   }
   out.override_line = {"pack-id", std::to_string(id) + " in " + db.path(), "pack (cells, layout, soh)", note};
   return out;
+}
+
+logbook::Database open_logbook(const std::string& path) {
+  if (!std::filesystem::exists(path))
+    throw InputError(path + ": no logbook here (expected a file made by `sortie logbook " + path + " add-pack`)");
+  return logbook::Database(path, false);
+}
+
+void add_logbook_pack_options(CLI::App* c, std::string& logbook, std::int64_t& pack_id) {
+  c->add_option("--logbook", logbook, "a pack logbook (sortie logbook): --pack-id takes the pack from it")
+      ->check(CLI::ExistingFile);
+  c->add_option("--pack-id", pack_id, "fly the logbook's pack ID (its cells and layout) with its latest SoH; listed as an override")
+      ->check(whole_in(1, 2147483647));
+}
+
+std::vector<sim::Override> logbook_override(sim::Mission& m, const std::string& logbook, std::int64_t pack_id,
+                                            bool has_pack_file) {
+  if (logbook.empty() && pack_id == 0) return {};
+  if (logbook.empty()) throw UsageError("--pack-id: needs --logbook");
+  if (pack_id == 0) throw UsageError("--logbook: needs --pack-id");
+  if (has_pack_file) throw UsageError("--pack-id: not with --pack (expected one pack)");
+  logbook::Database db = open_logbook(logbook);
+  const LogbookPack lb = logbook_pack(db, pack_id, true);
+  m.pack = lb.pack;
+  return {lb.override_line};
 }
 
 }  // namespace sortie::cli
