@@ -101,7 +101,7 @@ TEST_CASE("logbook CLI: the demo flight added to a pack stores check's own figur
   CHECK(run_sortie({"fly", source_path(kProfile), "--pack-id", "1"}).exit_code == 2);
 }
 
-TEST_CASE("logbook CLI: trend against the least squares done by hand, and the page") {
+TEST_CASE("logbook CLI: trend against the least squares done by hand and the page") {
   const std::string db = new_logbook("cli-trend.sqlite");
   {
     // Five estimates on the points of tests/logbook/trend_test.cpp, a week apart.
@@ -164,7 +164,7 @@ TEST_CASE("logbook CLI: a foreign or broken file is refused in one line and left
   CHECK(np.err.find("no pack with id 7") != std::string::npos);
 }
 
-TEST_CASE("logbook CLI: two sortie processes adding packs at once, every row kept") {
+TEST_CASE("logbook CLI: two sortie processes adding packs at once keep every row") {
   const std::string db = new_logbook("cli-two.sqlite");
   // Two shells, each running add-pack 15 times, started together in the background.
   std::string one = "for i in 1 2 3 4 5 6 7 8 9 10 11 12 13 14 15; do '" + std::string(SORTIE_BIN) + "' logbook '" + db +

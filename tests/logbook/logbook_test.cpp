@@ -79,7 +79,7 @@ std::string error_of(const std::string& path, bool writable) {
 
 }  // namespace
 
-TEST_CASE("logbook: a new file gets the mark, the current schema and foreign keys") {
+TEST_CASE("logbook: a new file gets the mark and the current schema and foreign keys") {
   const std::string path = test::work_path("lb-new.sqlite");
   {
     Database db(path, true);
@@ -116,7 +116,7 @@ TEST_CASE("logbook: a new file gets the mark, the current schema and foreign key
   sqlite3_close(db);
 }
 
-TEST_CASE("logbook: the same log hash twice is refused, naming the flight that has it") {
+TEST_CASE("logbook: the same log hash twice is refused naming the flight that has it") {
   const std::string path = test::work_path("lb-dup.sqlite");
   Database db(path, true);
   const auto id = db.add_pack(demo_pack());
@@ -194,7 +194,7 @@ TEST_CASE("logbook: a foreign SQLite database is refused and left byte for byte 
   CHECK_FALSE(std::filesystem::exists(path0 + "-journal"));
 }
 
-TEST_CASE("logbook: a file that is not SQLite, or a truncated logbook, is refused in one line and not changed") {
+TEST_CASE("logbook: a file that is not SQLite or a truncated logbook is refused in one line and not changed") {
   const std::string text = test::write_work_file("lb-text.sqlite", "time_s,voltage_V\n0,16.8\n");
   const std::string before = bytes_of(text);
   const std::string err = error_of(text, true);
