@@ -19,6 +19,10 @@ sortie_require(nlohmann_json_FOUND nlohmann-json3-dev "nlohmann-json")
 list(APPEND CMAKE_MODULE_PATH /usr/share/cmake/geographiclib)
 find_package(GeographicLib QUIET)
 sortie_require(GeographicLib_FOUND libgeographiclib-dev "GeographicLib (geodesics)")
+# The pack logbook is an SQLite database (src/logbook/): transactions, locking and a file format
+# documented and stable; CMake's FindSQLite3 module gives SQLite::SQLite3.
+find_package(SQLite3 QUIET)
+sortie_require(SQLite3_FOUND libsqlite3-dev "SQLite 3 (the pack logbook)")
 if(SORTIE_BUILD_TESTS)
   find_package(doctest QUIET CONFIG)
   sortie_require(doctest_FOUND doctest-dev "doctest")
@@ -26,5 +30,6 @@ endif()
 
 add_library(sortie_deps INTERFACE)
 target_link_libraries(sortie_deps INTERFACE Boost::headers Eigen3::Eigen CLI11::CLI11 nlohmann_json::nlohmann_json
+                      SQLite::SQLite3
                       ${GeographicLib_LIBRARIES})
 target_include_directories(sortie_deps INTERFACE ${GeographicLib_INCLUDE_DIRS})

@@ -5,7 +5,7 @@
 # python3-geographiclib, the independent geodesic reference the route tests compare with);
 # scripts/install-deps.sh --bench adds python3-scipy for bench/scipy_ratio.sh (not for the tests)
 set -euo pipefail
-pkgs=(g++ cmake make libboost-dev libeigen3-dev libcli11-dev nlohmann-json3-dev libgeographiclib-dev)
+pkgs=(g++ cmake make libboost-dev libeigen3-dev libcli11-dev nlohmann-json3-dev libgeographiclib-dev libsqlite3-dev)
 if [[ "${1:-}" == "--test" ]]; then
   pkgs+=(doctest-dev chromium python3-geographiclib)
 fi

@@ -14,5 +14,6 @@ void add_route_command(CLI::App& app, int& exit_code);
 void add_check_command(CLI::App& app, int& exit_code);
 void add_health_command(CLI::App& app, int& exit_code);
 void add_remaining_command(CLI::App& app, int& exit_code);
+void add_logbook_command(CLI::App& app, int& exit_code);
 
 }  // namespace sortie::cli

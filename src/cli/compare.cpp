@@ -10,6 +10,7 @@
 #include "cli/number_option.hpp"
 #include "cli/coverage_options.hpp"
 #include "cli/report_output.hpp"
+#include "cli/logbook_pack.hpp"
 #include "cli/what_if.hpp"
 #include "core/error.hpp"
 #include "core/text.hpp"
@@ -37,6 +38,8 @@ struct CompareOptions {
   WhatIfOptions what_if;  ///< the mission's what-if numbers and files (the packs come from --pack or the grid)
   std::string rank_by = "spare";
   std::optional<double> need_spare_s, need_landing_soc_pct, equal_energy_Wh;
+  std::string logbook;                ///< with pack_ids: packs from the logbook
+  std::vector<std::int64_t> pack_ids;
 };
 
 /// A progress bar on stderr, only when stderr is a terminal.
@@ -54,7 +57,7 @@ void progress_bar(std::size_t done, std::size_t total) {
 int run_compare(const CompareOptions& o) {
   const bool print = print_format(o.report, {{"--json", &o.json_file}}, o.quiet);
   io::LoadedProfile lp = io::load_profile_file(o.profile);
-  const std::vector<sim::Override> overrides = apply_what_if(lp.mission, o.what_if);
+  std::vector<sim::Override> overrides = apply_what_if(lp.mission, o.what_if);
   // The loader's cross-checks again on the changed mission (a fixed-wing airframe on a hover, a
   // cell whose maximum is below the reserve voltage, a wind no leg makes headway in).
   if (!overrides.empty()) io::check_profile(lp);
@@ -68,6 +71,15 @@ int run_compare(const CompareOptions& o) {
     const battery::Cell cell = o.cell.empty() ? lp.mission.pack.cell : io::load_cell_file(o.cell);
     cands = o.equal_energy_Wh ? sim::equal_energy_packs(cell, lp.mission.pack, o.series, *o.equal_energy_Wh, o.parallel)
                               : sim::pack_grid(cell, lp.mission.pack, o.series, o.capacity_Ah, o.parallel);
+  }
+  if (!o.logbook.empty()) {
+    // Packs from the logbook join the candidates, each with its latest SoH, listed as overrides.
+    logbook::Database db = open_logbook(o.logbook);
+    for (const auto id : o.pack_ids) {
+      const LogbookPack lb = logbook_pack(db, id, true);
+      cands.push_back({lb.record.name + " (logbook pack " + std::to_string(id) + ")", lb.pack});
+      overrides.push_back(lb.override_line);
+    }
   }
   sim::RankOptions rank;
   rank.by = o.rank_by == "lightest" ? sim::RankBy::lightest
@@ -142,9 +154,15 @@ void add_compare_command(CLI::App& app, int& exit_code) {
   add_coverage_options(c, o->stop_at_coverage, o->accept_extrapolation);
   c->add_flag("--quiet,-q", o->quiet, "print nothing on success");
   add_what_if_options(c, o->what_if, false);
+  c->add_option("--logbook", o->logbook, "a pack logbook (sortie logbook): --pack-id takes packs from it")->check(CLI::ExistingFile);
+  c->add_option("--pack-id", o->pack_ids, "a logbook pack to compare, with its latest SoH (repeat for each)")
+      ->check(whole_in(1, 2147483647));
   c->callback([o, &exit_code] {
-    if (o->packs.empty() && (o->series.empty() || (o->capacity_Ah.empty() && !o->equal_energy_Wh)))
-      throw CLI::RequiredError("--pack (repeated), or --series with --capacity-Ah or --equal-energy-Wh");
+    if (o->logbook.empty() != o->pack_ids.empty())
+      throw UsageError(o->logbook.empty() ? "--pack-id: needs --logbook" : "--logbook: needs --pack-id");
+    refuse_repeats("--pack-id", o->pack_ids);
+    if (o->packs.empty() && o->pack_ids.empty() && (o->series.empty() || (o->capacity_Ah.empty() && !o->equal_energy_Wh)))
+      throw CLI::RequiredError("--pack or --pack-id (repeated), or --series with --capacity-Ah or --equal-energy-Wh");
     refuse_repeats("--pack", o->packs);
     refuse_repeats("--series", o->series);
     refuse_repeats("--capacity-Ah", o->capacity_Ah);

@@ -7,6 +7,7 @@
 #include "cli/report_output.hpp"
 #include "cli/progress.hpp"
 #include "cli/run.hpp"
+#include "cli/logbook_pack.hpp"
 #include "cli/what_if.hpp"
 #include "core/error.hpp"
 #include "core/text.hpp"
@@ -39,6 +40,8 @@ struct FlyOptions {
   int samples = 0;                  ///< 0: one deterministic flight
   std::int64_t seed = 1;
   std::string spreads_file;         ///< none: sim::Spreads's defaults
+  std::string logbook;              ///< with pack_id: the pack from the logbook
+  std::int64_t pack_id = 0;
 };
 
 int run_samples(const FlyOptions& o, const sim::Mission& m, const std::vector<sim::Override>& overrides, bool print) {
@@ -101,7 +104,8 @@ std::string with_overrides(std::string text, const std::vector<sim::Override>& o
 int run_fly(const FlyOptions& o) {
   const bool print = print_format(o.report, {{"--json", &o.json_file}, {"--trace", &o.trace_file}}, o.quiet);
   io::LoadedProfile lp = io::load_profile_file(o.profile, o.pack);
-  const std::vector<sim::Override> overrides = apply_what_if(lp.mission, o.what_if);
+  std::vector<sim::Override> overrides = logbook_override(lp.mission, o.logbook, o.pack_id, !o.pack.empty());
+  for (auto& w : apply_what_if(lp.mission, o.what_if)) overrides.push_back(std::move(w));
   // The loader's cross-checks again on the changed mission (a fixed-wing airframe on a hover, a
   // cell whose maximum is below the reserve voltage, a wind no leg makes headway in).
   if (!overrides.empty()) io::check_profile(lp);
@@ -161,6 +165,7 @@ void add_fly_command(CLI::App& app, int& exit_code) {
   add_coverage_options(c, o->stop_at_coverage, o->accept_extrapolation);
   c->add_flag("--quiet,-q", o->quiet, "print nothing; the exit code tells go (0) or no-go (3)");
   add_what_if_options(c, o->what_if, true);
+  add_logbook_pack_options(c, o->logbook, o->pack_id);
   c->add_option("--sweep", o->sweeps,
                 "fly a grid instead of one flight: NAME=FROM:TO:STEP over a what-if number (NAME the option "
                 "without its dashes, e.g. payload-kg=0:1:0.1); give it once or twice; at most 10000 points")

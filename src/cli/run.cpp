@@ -42,6 +42,7 @@ int run(int argc, char** argv) {
   add_check_command(app, exit_code);
   add_health_command(app, exit_code);
   add_remaining_command(app, exit_code);
+  add_logbook_command(app, exit_code);
   io::OutputBatch outputs;  // a command's output files appear together, or none of them does
   try {
     app.parse(argc, argv);
