@@ -54,7 +54,7 @@ std::string as_csv(const sim::SyntheticLog& s) {
 const bool reg_fit = bench::add_case(
     "fit_cell_10h_1Hz",
     [] {
-      static const fit::CellLog log = sim::to_cell_log(log_10h(), "bench");
+      static const battery::CellLog log = sim::to_cell_log(log_10h(), "bench");
       bench::keep(fit::fit_cell(log, lipo()).fit_rmse_V);
     },
     5);
@@ -62,7 +62,7 @@ const bool reg_fit = bench::add_case(
 // What `sortie fit cell` does apart from the disk: parse the CSV text, fit, write and reload the
 // model, re-simulate it on the log's current, and the voltage errors.
 void fit_command(const std::string& csv) {
-  const fit::CellLog log = io::read_cell_log(io::parse_delimited(csv, "bench.csv"), io::CellLogOptions{});
+  const battery::CellLog log = io::read_cell_log(io::parse_delimited(csv, "bench.csv"), io::CellLogOptions{});
   const fit::CellFitResult r = fit::fit_cell(log, lipo());
   const nlohmann::json j = nlohmann::json::parse(io::cell_to_json(r.cell, r.note).dump());
   io::ObjectReader reader(j, io::Source{"bench.json", {}}, "");

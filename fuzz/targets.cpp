@@ -258,7 +258,7 @@ void run_cell_log(const std::string& text) {
   io::CellLogOptions numbered;
   numbered.columns = io::parse_column_spec("time=1,current=2,voltage=3", io::cell_log_quantities());
   for (const io::CellLogOptions& opts : {io::CellLogOptions{}, numbered}) {
-    fit::CellLog log;
+    battery::CellLog log;
     try {
       log = io::read_cell_log(f, opts);
     } catch (const InputError&) {
@@ -292,7 +292,7 @@ void run_bench_csv(const std::string& text) {
 /// through the loader, and the text and JSON reports.
 void run_fit_cell(const std::string& text) {
   const io::DelimitedFile f = io::parse_delimited(text, "fuzz-fit.csv");
-  const fit::CellLog log = io::read_cell_log(f, io::CellLogOptions{});
+  const battery::CellLog log = io::read_cell_log(f, io::CellLogOptions{});
   fit::CellFitOptions fo;
   fo.rc_pairs = text.size() % 2 ? 1 : 2;
   if (text.size() % 4 < 2) {

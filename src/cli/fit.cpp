@@ -63,7 +63,7 @@ int run_fit_cell(const FitCellOptions& o) {
   lo.series = o.series;
   lo.parallel = o.parallel;
   lo.capacity_Ah = o.capacity_Ah;
-  std::vector<fit::CellLog> logs;
+  std::vector<battery::CellLog> logs;
   for (std::size_t k = 0; k < o.log_files.size(); ++k) {
     lo.columns = columns[k];
     logs.push_back(io::load_cell_log(o.log_files[k], lo));
@@ -87,7 +87,7 @@ int run_fit_cell(const FitCellOptions& o) {
                      format_number(*o.v_max_V) + " V)");
   fit::CellFitResult r = fit::fit_cell(logs, fo);
   // The log the fit saw: the one file, or the files one after the other (fit_cell's order).
-  fit::CellLog log;
+  battery::CellLog log;
   if (logs.size() == 1) {
     log = std::move(logs.front());
   } else {

@@ -13,7 +13,7 @@ double inv_kelvin(double t_C) { return 1.0 / (t_C + 273.15); }
 
 }  // namespace
 
-ArrheniusFit fit_arrhenius(const CellLog& log, const std::vector<CurrentStep>& steps, const battery::Cell& cell,
+ArrheniusFit fit_arrhenius(const battery::CellLog& log, const std::vector<CurrentStep>& steps, const battery::Cell& cell,
                            double reference_C, const std::string& reference_how) {
   ArrheniusFit a;
   a.reference_C = reference_C;

@@ -22,7 +22,7 @@
 #include <vector>
 
 #include "battery/cell.hpp"
-#include "fit/cell_log.hpp"
+#include "battery/cell_log.hpp"
 #include "fit/rc_fit.hpp"
 
 namespace sortie::fit {
@@ -47,7 +47,7 @@ struct ArrheniusFit {
 /// steps' −ΔV/ΔI against the fitted R0 table, so the SoC dependence cancels). `reference_C`:
 /// the temperature the fitted resistances belong to (the log's mean, else the air given, else
 /// 25 °C assumed, said in `how`).
-ArrheniusFit fit_arrhenius(const CellLog& log, const std::vector<CurrentStep>& steps, const battery::Cell& cell,
+ArrheniusFit fit_arrhenius(const battery::CellLog& log, const std::vector<CurrentStep>& steps, const battery::Cell& cell,
                            double reference_C, const std::string& reference_how);
 
 /// The resistance factor table over −20..60 °C (held flat beyond), 1 at the reference.

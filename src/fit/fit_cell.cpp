@@ -16,7 +16,7 @@ using detail::FitWork;
 std::string file_name(const std::string& path) { return std::filesystem::path(path).filename().string(); }
 
 /// The procedure (fit/fit_cell.hpp), each step in fit/fit_cell_steps.hpp.
-CellFitResult fit_impl(const CellLog& log, const CellFitOptions& opts, const SocEstimate* given) {
+CellFitResult fit_impl(const battery::CellLog& log, const CellFitOptions& opts, const SocEstimate* given) {
   CellFitResult out;
   out.files = {log.file};
   FitWork w(log, opts, out);
@@ -49,7 +49,7 @@ SocOptions soc_options(const CellFitOptions& opts) {
 }
 
 /// The capacity of several logs: the mean of those that hold a full-to-empty pair, else given.
-double common_capacity(const std::vector<CellLog>& logs, const SocOptions& so, std::size_t& measured) {
+double common_capacity(const std::vector<battery::CellLog>& logs, const SocOptions& so, std::size_t& measured) {
   std::vector<double> caps;
   for (std::size_t i = 0; i < logs.size(); ++i) {
     SocOptions o = so;
@@ -74,7 +74,7 @@ double common_capacity(const std::vector<CellLog>& logs, const SocOptions& so, s
 }
 
 /// Appends log `l` to `m` as a section of its own, an hour after the previous one ends.
-void append_log(CellLog& m, const CellLog& l, bool first, bool any_temp, bool any_mode) {
+void append_log(battery::CellLog& m, const battery::CellLog& l, bool first, bool any_temp, bool any_mode) {
   const std::size_t base = m.size();
   const double shift = first ? 0.0 : m.time_s.back() + 3600.0 - l.time_s.front();
   for (std::size_t k = 0; k < l.size(); ++k) {
@@ -115,9 +115,9 @@ void append_estimate(SocEstimate& se, SocEstimate e, std::size_t base, const std
 
 }  // namespace
 
-CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts) { return fit_impl(log, opts, nullptr); }
+CellFitResult fit_cell(const battery::CellLog& log, const CellFitOptions& opts) { return fit_impl(log, opts, nullptr); }
 
-CellFitResult fit_cell(const std::vector<CellLog>& logs, const CellFitOptions& opts) {
+CellFitResult fit_cell(const std::vector<battery::CellLog>& logs, const CellFitOptions& opts) {
   if (logs.empty()) throw InputError("fit cell: no log given (expected at least one)");
   if (logs.size() == 1) return fit_impl(logs.front(), opts, nullptr);
   const SocOptions so = soc_options(opts);
@@ -125,13 +125,13 @@ CellFitResult fit_cell(const std::vector<CellLog>& logs, const CellFitOptions& o
   const double q = common_capacity(logs, so, measured);
   // One log of sections: each input log starts a section (an unknown gap, cell relaxed), its SoC
   // counted from its own known points with the common capacity.
-  CellLog m;
+  battery::CellLog m;
   SocEstimate se;
   m.section_starts.clear();
   std::vector<std::size_t> starts;
   std::string names;
-  const bool any_temp = std::any_of(logs.begin(), logs.end(), [](const CellLog& l) { return !l.temperature_C.empty(); });
-  const bool any_mode = std::any_of(logs.begin(), logs.end(), [](const CellLog& l) { return !l.mode.empty(); });
+  const bool any_temp = std::any_of(logs.begin(), logs.end(), [](const battery::CellLog& l) { return !l.temperature_C.empty(); });
+  const bool any_mode = std::any_of(logs.begin(), logs.end(), [](const battery::CellLog& l) { return !l.mode.empty(); });
   for (std::size_t i = 0; i < logs.size(); ++i) {
     SocOptions o = so;
     if (i > 0) o.soc0.reset();
@@ -149,7 +149,7 @@ CellFitResult fit_cell(const std::vector<CellLog>& logs, const CellFitOptions& o
   CellFitResult r = fit_impl(m, opts, &se);
   r.log_starts = starts;
   r.files.clear();
-  for (const CellLog& l : logs) r.files.push_back(l.file);
+  for (const battery::CellLog& l : logs) r.files.push_back(l.file);
   if (r.cell.coverage) r.cell.coverage->source = "fit cell " + names;
   return r;
 }

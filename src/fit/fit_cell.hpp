@@ -19,7 +19,7 @@
 #include <vector>
 
 #include "battery/cell.hpp"
-#include "fit/cell_log.hpp"
+#include "battery/cell_log.hpp"
 #include "fit/levenberg_marquardt.hpp"
 #include "fit/soc.hpp"
 #include "fit/cell_priors.hpp"
@@ -116,11 +116,11 @@ struct CellFitResult {
 
 /// Throws InputError for a log that cannot give a model (all-zero current, a current that never
 /// changes, no known SoC point, no OCV information), naming the file and what is missing.
-CellFitResult fit_cell(const CellLog& log, const CellFitOptions& opts);
+CellFitResult fit_cell(const battery::CellLog& log, const CellFitOptions& opts);
 
 /// Several logs of one cell into one model: each log a section of its own (an unknown gap, the
 /// cell relaxed), its SoC counted from its own known points (--soc0 is the first log's) with one
 /// capacity — the mean of those the logs measure, else --capacity-Ah.
-CellFitResult fit_cell(const std::vector<CellLog>& logs, const CellFitOptions& opts);
+CellFitResult fit_cell(const std::vector<battery::CellLog>& logs, const CellFitOptions& opts);
 
 }  // namespace sortie::fit

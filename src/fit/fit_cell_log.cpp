@@ -29,7 +29,7 @@ std::vector<double> ocv_grid(double s_lo, double s_hi) {
 
 /// Rest-end and low-rate loaded OCV estimates with a drop added back: OCV ≈ V + drop. They start
 /// the joint fit and give the first OCV (fit/ocv).
-void ocv_points(const CellLog& log, const std::vector<double>& soc, const std::vector<Rest>& rests,
+void ocv_points(const battery::CellLog& log, const std::vector<double>& soc, const std::vector<Rest>& rests,
                 const std::vector<double>& drop, double rest_min_s, double i_rest, double i_low,
                 double settle_s, std::vector<OcvPoint>& rest_pts, std::vector<OcvPoint>& loaded_pts) {
   rest_pts.clear();
@@ -59,7 +59,7 @@ void ocv_points(const CellLog& log, const std::vector<double>& soc, const std::v
 /// Rows of long charges (more than 2 % of the capacity in one go) and the rests after them: they
 /// sit on the charge branch of the OCV hysteresis loop while the fitted OCV is the discharge
 /// branch (common practice; Plett 2015, ch. 2, "hysteresis"). Simulated, not counted.
-std::vector<char> rows_to_count(const CellLog& log, const SocEstimate& se) {
+std::vector<char> rows_to_count(const battery::CellLog& log, const SocEstimate& se) {
   const std::size_t n = log.size();
   std::vector<char> use(n, 1);
   std::size_t k = 0;
@@ -99,7 +99,7 @@ std::vector<char> rows_to_count(const CellLog& log, const SocEstimate& se) {
 /// Blocks of a log for the held-out check: the rows between two long rests (at least
 /// `rest_min_s`) form one block; the long rests themselves belong to none (-1), so that every
 /// fold keeps the rest ends that fix the OCV.
-std::vector<int> log_blocks(const CellLog& log, const std::vector<Rest>& rests, double rest_min_s, int& count) {
+std::vector<int> log_blocks(const battery::CellLog& log, const std::vector<Rest>& rests, double rest_min_s, int& count) {
   std::vector<int> b(log.size(), 0);
   int block = 0;
   std::size_t k = 0;
@@ -118,7 +118,7 @@ std::vector<int> log_blocks(const CellLog& log, const std::vector<Rest>& rests, 
 
 /// The log at a glance (rows, time steps, largest current); logs that cannot give a model.
 void survey_log(FitWork& w) {
-  const CellLog& log = w.log;
+  const battery::CellLog& log = w.log;
   CellFitResult& out = w.out;
   const std::size_t n = w.n = log.size();
   out.rows = n;
@@ -214,7 +214,7 @@ void first_r0(FitWork& w) {
 
 /// Step 3: rests, OCV points and the first OCV on the fit's grid (fit/ocv).
 void first_ocv(FitWork& w) {
-  const CellLog& log = w.log;
+  const battery::CellLog& log = w.log;
   CellFitResult& out = w.out;
   const CellFitOptions& opts = w.opts;
   w.rests = find_rests(log, w.se().i_rest_A);

@@ -11,7 +11,7 @@ namespace {
 
 /// The smallest voltage change between rows: the logger's resolution (or less, for a log
 /// written with more digits than the instrument has).
-double voltage_resolution(const CellLog& log) {
+double voltage_resolution(const battery::CellLog& log) {
   double r = 1e300;
   for (std::size_t k = 1; k < log.size(); ++k) {
     const double d = std::fabs(log.voltage_V[k] - log.voltage_V[k - 1]);

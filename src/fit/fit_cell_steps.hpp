@@ -25,7 +25,7 @@ struct Fit {
 
 /// What the steps find, in the order they find it.
 struct FitWork {
-  const CellLog& log;
+  const battery::CellLog& log;
   const CellFitOptions& opts;
   CellFitResult& out;
   std::size_t n = 0;
@@ -51,7 +51,7 @@ struct FitWork {
   std::vector<int> block;  ///< per row: its block between long rests (-1: a long rest)
   int nblocks = 0;
 
-  FitWork(const CellLog& l, const CellFitOptions& o, CellFitResult& r) : log(l), opts(o), out(r) {}
+  FitWork(const battery::CellLog& l, const CellFitOptions& o, CellFitResult& r) : log(l), opts(o), out(r) {}
   const SocEstimate& se() const { return out.soc_estimate; }
   const std::vector<double>& soc() const { return out.soc; }
   double rows_counted() const;
@@ -72,7 +72,7 @@ void log_temperature(FitWork& w);
 void count_soc(FitWork& w, const SocEstimate* given);
 void first_r0(FitWork& w);
 void first_ocv(FitWork& w);
-std::vector<int> log_blocks(const CellLog& log, const std::vector<Rest>& rests, double rest_min_s, int& count);
+std::vector<int> log_blocks(const battery::CellLog& log, const std::vector<Rest>& rests, double rest_min_s, int& count);
 
 // fit_cell_rc.cpp: the RC pairs.
 void rc_bounds(FitWork& w);

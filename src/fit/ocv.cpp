@@ -95,7 +95,7 @@ Table ocv_table_from_grid(const std::vector<double>& grid, std::vector<double> v
   return Table(x, v);
 }
 
-std::vector<Rest> find_rests(const CellLog& log, double i_rest_A) {
+std::vector<Rest> find_rests(const battery::CellLog& log, double i_rest_A) {
   std::vector<Rest> out;
   const std::size_t n = log.size();
   std::size_t k = 0;

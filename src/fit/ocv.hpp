@@ -11,7 +11,7 @@
 #include <vector>
 
 #include "core/table.hpp"
-#include "fit/cell_log.hpp"
+#include "battery/cell_log.hpp"
 
 namespace sortie::fit {
 
@@ -23,7 +23,7 @@ struct Rest {
 };
 
 /// Runs of rows with |I| ≤ i_rest_A.
-std::vector<Rest> find_rests(const CellLog& log, double i_rest_A);
+std::vector<Rest> find_rests(const battery::CellLog& log, double i_rest_A);
 
 /// One open-circuit estimate.
 struct OcvPoint {

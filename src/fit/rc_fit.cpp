@@ -58,7 +58,7 @@ Table RcTables::r0_table() const { return knots.size() == 1 ? Table(r0_ohm[0]) :
 Table RcTables::r_table(int p) const { return knots.size() == 1 ? Table(r_ohm[p][0]) : Table(knots, r_ohm[p]); }
 Table RcTables::tau_table(int p) const { return knots.size() == 1 ? Table(tau_s[p][0]) : Table(knots, tau_s[p]); }
 
-RcProblem::RcProblem(const CellLog& log, const std::vector<double>& soc, const Table& ocv,
+RcProblem::RcProblem(const battery::CellLog& log, const std::vector<double>& soc, const Table& ocv,
                      std::vector<double> knots, int n_rc, std::vector<char> use, RowMerge row_merge)
     : knots_(std::move(knots)), n_rc_(n_rc), ocv_held_(ocv) {
   assert(!knots_.empty() && (n_rc == 1 || n_rc == 2));
@@ -369,7 +369,7 @@ LmResult RcProblem::solve(const RcSolution& start, const RcBounds& b, const LmOp
   return levenberg_marquardt(f, to_z(start), lo, hi, opts);
 }
 
-std::vector<CurrentStep> find_current_steps(const CellLog& log, const std::vector<double>& soc,
+std::vector<CurrentStep> find_current_steps(const battery::CellLog& log, const std::vector<double>& soc,
                                             double min_step_A) {
   std::vector<CurrentStep> out;
   for (std::size_t k = 1; k < log.size(); ++k) {

@@ -4,7 +4,7 @@
 /// (fit/levenberg_marquardt) with the SoC of every row held.
 ///
 /// The model on the log (G. Plett, Battery Management Systems, Vol. I, 2015, eq. 2.7–2.10),
-/// with sample k's current I_k flowing over (t_{k−1}, t_k] (fit::CellLog):
+/// with sample k's current I_k flowing over (t_{k−1}, t_k] (battery::CellLog):
 ///   v_{p,k} = R_p·I_k + a·(v_{p,k−1} − R_p·I_k),   a = exp(−Δt_k/τ_p)   (exact for constant I)
 ///   V_k = OCV(s_k) − R0(s_k)·I_k − Σ_p v_{p,k}
 /// R_p and τ_p at the interval's mid SoC. Each parameter is a piecewise-linear table over the
@@ -24,7 +24,7 @@
 #include <Eigen/Dense>
 
 #include "core/table.hpp"
-#include "fit/cell_log.hpp"
+#include "battery/cell_log.hpp"
 #include "fit/levenberg_marquardt.hpp"
 
 namespace sortie::fit {
@@ -69,7 +69,7 @@ class RcProblem {
 
   /// `ocv` is the OCV when it is held (see free_ocv); rows with use[k] == 0 are simulated but
   /// not counted.
-  RcProblem(const CellLog& log, const std::vector<double>& soc, const Table& ocv,
+  RcProblem(const battery::CellLog& log, const std::vector<double>& soc, const Table& ocv,
             std::vector<double> knots, int n_rc, std::vector<char> use = {},
             RowMerge merge = RowMerge::none);
 
@@ -156,7 +156,7 @@ struct CurrentStep {
 };
 
 /// Steps with |ΔI| at least `min_step_A` inside a section.
-std::vector<CurrentStep> find_current_steps(const CellLog& log, const std::vector<double>& soc,
+std::vector<CurrentStep> find_current_steps(const battery::CellLog& log, const std::vector<double>& soc,
                                             double min_step_A);
 
 }  // namespace sortie::fit

@@ -11,13 +11,13 @@ namespace sortie::fit {
 namespace {
 }  // namespace
 
-double rest_current_A(const CellLog& log) {
+double rest_current_A(const battery::CellLog& log) {
   double imax = 0.0;
   for (double i : log.current_A) imax = std::max(imax, std::fabs(i));
   return std::max(0.005 * imax, 1e-6);
 }
 
-SocEstimate estimate_soc(const CellLog& log, const SocOptions& opts) {
+SocEstimate estimate_soc(const battery::CellLog& log, const SocOptions& opts) {
   const std::size_t n = log.size();
   SocEstimate out;
   out.i_rest_A = rest_current_A(log);

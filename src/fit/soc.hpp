@@ -24,7 +24,7 @@
 #include <string>
 #include <vector>
 
-#include "fit/cell_log.hpp"
+#include "battery/cell_log.hpp"
 #include "fit/chemistry.hpp"
 
 namespace sortie::fit {
@@ -72,9 +72,9 @@ struct SocEstimate {
 
 /// |I| at or below which a row is at rest: 0.5 % of the largest |I| (a logger's offset on a
 /// rest is typically well under that; common practice).
-double rest_current_A(const CellLog& log);
+double rest_current_A(const battery::CellLog& log);
 
 /// Throws InputError when there is no anchor, or no capacity from the log or the options.
-SocEstimate estimate_soc(const CellLog& log, const SocOptions& opts);
+SocEstimate estimate_soc(const battery::CellLog& log, const SocOptions& opts);
 
 }  // namespace sortie::fit

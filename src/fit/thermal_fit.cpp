@@ -11,7 +11,7 @@ namespace sortie::fit {
 namespace {
 
 /// Heat of each row's interval (t_{k−1}, t_k], J: I²·R0 + Σ v_p²/R_p.
-std::vector<double> row_heat(const CellLog& log, const std::vector<double>& soc, const battery::Cell& cell) {
+std::vector<double> row_heat(const battery::CellLog& log, const std::vector<double>& soc, const battery::Cell& cell) {
   const std::size_t n = log.size();
   std::vector<double> heat(n, 0.0), v(cell.rc.size(), 0.0);
   for (std::size_t k = 0; k < n; ++k) {
@@ -45,7 +45,7 @@ struct Rows {
   double t_min = 1e300, t_max = -1e300, t_first = 0.0, heat_total = 0.0;
 };
 
-Rows thermal_rows(const CellLog& log, const std::vector<double>& heat_of_row) {
+Rows thermal_rows(const battery::CellLog& log, const std::vector<double>& heat_of_row) {
   Rows out;
   std::size_t sections = 0;
   bool open = false;
@@ -122,7 +122,7 @@ bool solve_heat_balance(const Rows& rs, std::optional<double> air_C, std::option
 
 /// Re-runs the block along the log, C·dT/dt = q − hA·(T − T_air), exact per interval for a
 /// constant q: RMSE and largest error against the logged temperature.
-void rerun(const CellLog& log, const Rows& rs, ThermalFit& out) {
+void rerun(const battery::CellLog& log, const Rows& rs, ThermalFit& out) {
   double sum2 = 0.0, worst = 0.0, T_model = 0.0, heat_prev = 0.0;
   std::size_t current_section = 0;
   const double tau = out.hA_W_per_K > 0 ? out.heat_capacity_J_per_K / out.hA_W_per_K : 0.0;
@@ -187,7 +187,7 @@ void bound_fit(const Rows& rs, std::optional<double> air_C, double mass_kg, cons
 
 }  // namespace
 
-std::optional<ThermalFit> fit_thermal(const CellLog& log, const std::vector<double>& soc, const battery::Cell& cell,
+std::optional<ThermalFit> fit_thermal(const battery::CellLog& log, const std::vector<double>& soc, const battery::Cell& cell,
                                       std::optional<double> air_C, const ThermalPrior& prior,
                                       std::vector<std::string>& warnings, std::string& why) {
   if (log.temperature_C.size() != log.size() || log.size() < 3) {

@@ -21,7 +21,7 @@
 #include <vector>
 
 #include "battery/cell.hpp"
-#include "fit/cell_log.hpp"
+#include "battery/cell_log.hpp"
 #include "fit/cell_priors.hpp"
 
 namespace sortie::fit {
@@ -48,7 +48,7 @@ struct ThermalFit {
 /// Fit on the rows with a temperature (blank ones are skipped by the integrals' neighbours).
 /// Returns nullopt with `why` set only without a temperature column (or fewer than 3 rows);
 /// otherwise a block within the prior's bounds, its defaults warned about in `warnings`.
-std::optional<ThermalFit> fit_thermal(const CellLog& log, const std::vector<double>& soc, const battery::Cell& cell,
+std::optional<ThermalFit> fit_thermal(const battery::CellLog& log, const std::vector<double>& soc, const battery::Cell& cell,
                                       std::optional<double> air_C, const ThermalPrior& prior,
                                       std::vector<std::string>& warnings, std::string& why);
 

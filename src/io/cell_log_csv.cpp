@@ -151,7 +151,7 @@ RawRows read_raw_rows(const DelimitedFile& f, const CellColumns& cols) {
 
 /// One strictly increasing time axis over the sections, and the per-cell values in SI.
 void fill_values(const std::string& file, const RawRows& raw, const CellUnits& u, const CellLogOptions& opts,
-                 fit::CellLog& log) {
+                 battery::CellLog& log) {
   const std::size_t n = raw.size();
   log.time_s.resize(n);
   log.current_A.resize(n);
@@ -164,12 +164,12 @@ void fill_values(const std::string& file, const RawRows& raw, const CellUnits& u
       log.section_starts.push_back(0);
     } else if (raw.new_section[k]) {
       // A new section continues the axis one second after the last row; no current flows in the
-      // gap (fit::CellLog::section_starts).
+      // gap (battery::CellLog::section_starts).
       offset = log.time_s[k - 1] + 1.0 - t;
       log.section_starts.push_back(k);
     }
     log.time_s[k] = t + offset;
-    // The axis must stay finite and strictly increasing (fit::CellLog): a time that overflows
+    // The axis must stay finite and strictly increasing (battery::CellLog): a time that overflows
     // its unit, or one so large (1e300 s) that the rows' steps round away, is refused here.
     if (!std::isfinite(log.time_s[k]))
       throw InputError(message(Source{file, {}}, line_of(raw.lines[k]), "time out of range",
@@ -186,12 +186,12 @@ void fill_values(const std::string& file, const RawRows& raw, const CellUnits& u
   log.line = raw.lines;
 }
 
-void fill_temperature(const RawRows& raw, const CellUnits& u, fit::CellLog& log) {
+void fill_temperature(const RawRows& raw, const CellUnits& u, battery::CellLog& log) {
   log.temperature_C.resize(raw.size());
   for (std::size_t k = 0; k < raw.size(); ++k) log.temperature_C[k] = u.temp.scale * raw.temp[k] + u.temp.offset;
 }
 
-void add_row_notes(const RawRows& raw, const CellLogOptions& opts, fit::CellLog& log) {
+void add_row_notes(const RawRows& raw, const CellLogOptions& opts, battery::CellLog& log) {
   if (opts.series > 1 || opts.parallel > 1)
     log.notes.push_back("pack log " + std::to_string(opts.series) + "S" + std::to_string(opts.parallel) +
                         "P: voltage divided by " + std::to_string(opts.series) + ", current by " +
@@ -211,9 +211,9 @@ const std::vector<std::string>& cell_log_quantities() {
   return q;
 }
 
-fit::CellLog read_cell_log(const DelimitedFile& f, const CellLogOptions& opts) {
+battery::CellLog read_cell_log(const DelimitedFile& f, const CellLogOptions& opts) {
   if (f.rows.empty()) throw InputError(f.file + ": no data rows (the file is empty)");
-  fit::CellLog log;
+  battery::CellLog log;
   log.file = f.file;
   log.section_starts.clear();
   const CellColumns cols = find_cell_columns(f, opts);
@@ -227,7 +227,7 @@ fit::CellLog read_cell_log(const DelimitedFile& f, const CellLogOptions& opts) {
   return log;
 }
 
-fit::CellLog load_cell_log(const std::filesystem::path& path, const CellLogOptions& opts) {
+battery::CellLog load_cell_log(const std::filesystem::path& path, const CellLogOptions& opts) {
   return read_cell_log(read_delimited(path), opts);
 }
 

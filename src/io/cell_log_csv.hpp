@@ -1,5 +1,5 @@
 #pragma once
-/// A cell test log from a CSV (or semicolon/tab separated) file into fit::CellLog.
+/// A cell test log from a CSV (or semicolon/tab separated) file into battery::CellLog.
 ///
 /// Columns are found by `--columns` or by what their header says (io/log_header.hpp): the name
 /// compared in lower case with everything but letters and digits removed, after taking off a
@@ -32,7 +32,7 @@
 #include <optional>
 #include <string>
 
-#include "fit/cell_log.hpp"
+#include "battery/cell_log.hpp"
 #include "io/log_columns.hpp"
 
 namespace sortie::io {
@@ -48,7 +48,7 @@ struct CellLogOptions {
 /// The quantities `--columns` accepts for a cell log.
 const std::vector<std::string>& cell_log_quantities();
 
-fit::CellLog read_cell_log(const DelimitedFile& file, const CellLogOptions& opts);
-fit::CellLog load_cell_log(const std::filesystem::path& path, const CellLogOptions& opts);
+battery::CellLog read_cell_log(const DelimitedFile& file, const CellLogOptions& opts);
+battery::CellLog load_cell_log(const std::filesystem::path& path, const CellLogOptions& opts);
 
 }  // namespace sortie::io

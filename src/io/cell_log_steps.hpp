@@ -5,7 +5,7 @@
 #include <string>
 #include <vector>
 
-#include "fit/cell_log.hpp"
+#include "battery/cell_log.hpp"
 #include "io/cell_log_csv.hpp"
 #include "io/log_header.hpp"
 
@@ -37,11 +37,11 @@ struct CellUnits {
 
 /// Units declared or detected; every detection is a note or a warning in `log`.
 CellUnits cell_units(const std::string& file, const CellColumns& cols, const RawRows& raw,
-                     const CellLogOptions& opts, fit::CellLog& log);
+                     const CellLogOptions& opts, battery::CellLog& log);
 /// Turns the log's current discharge positive (given, or detected from the voltage response).
-void orient_current(const std::string& file, const CellLogOptions& opts, fit::CellLog& log);
+void orient_current(const std::string& file, const CellLogOptions& opts, battery::CellLog& log);
 /// The mode column's text read by its meaning into "rest", "charge" or "discharge"; text with
 /// no such meaning is read from the current's sign and size.
-void read_modes(const std::vector<std::string>& text, fit::CellLog& log);
+void read_modes(const std::vector<std::string>& text, battery::CellLog& log);
 
 }  // namespace sortie::io::cell_log_detail

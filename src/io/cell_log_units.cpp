@@ -30,12 +30,12 @@ UnitFactor declared(const std::string& file, const ResolvedColumn& c, Quantity q
   return *f;
 }
 
-void describe(fit::CellLog& log, const ResolvedColumn& c, const std::string& q, const std::string& unit, bool detected) {
+void describe(battery::CellLog& log, const ResolvedColumn& c, const std::string& q, const std::string& unit, bool detected) {
   log.notes.push_back(q + ": " + c.title + " in " + unit + (detected ? " (detected)" : ""));
 }
 
 /// Time: s, or ms when every time is a whole number and the median step is 100 or more.
-UnitFactor time_unit(const std::string& file, const ResolvedColumn& c, const RawRows& raw, fit::CellLog& log) {
+UnitFactor time_unit(const std::string& file, const ResolvedColumn& c, const RawRows& raw, battery::CellLog& log) {
   if (c.declared) {
     const UnitFactor u = declared(file, c, Quantity::time, "time");
     describe(log, c, "time", c.unit, false);
@@ -58,7 +58,7 @@ UnitFactor time_unit(const std::string& file, const ResolvedColumn& c, const Raw
 
 /// Voltage: V or mV from the median per-cell magnitude.
 UnitFactor voltage_unit(const std::string& file, const ResolvedColumn& c, const RawRows& raw,
-                        const CellLogOptions& opts, fit::CellLog& log) {
+                        const CellLogOptions& opts, battery::CellLog& log) {
   if (c.declared) {
     const UnitFactor u = declared(file, c, Quantity::voltage, "voltage");
     describe(log, c, "voltage", c.unit, false);
@@ -84,7 +84,7 @@ UnitFactor voltage_unit(const std::string& file, const ResolvedColumn& c, const 
 
 /// Current: A, or mA when the largest per-cell value exceeds 1000 (or 50 × the capacity).
 UnitFactor current_unit(const std::string& file, const ResolvedColumn& c, const RawRows& raw,
-                        const CellLogOptions& opts, fit::CellLog& log) {
+                        const CellLogOptions& opts, battery::CellLog& log) {
   if (c.declared) {
     const UnitFactor u = declared(file, c, Quantity::current, "current");
     describe(log, c, "current", c.unit, false);
@@ -105,7 +105,7 @@ UnitFactor current_unit(const std::string& file, const ResolvedColumn& c, const 
 }
 
 /// Temperature: °C, or K when the median is above 200.
-UnitFactor temp_unit(const std::string& file, const ResolvedColumn& c, const RawRows& raw, fit::CellLog& log) {
+UnitFactor temp_unit(const std::string& file, const ResolvedColumn& c, const RawRows& raw, battery::CellLog& log) {
   if (c.declared) {
     const UnitFactor u = declared(file, c, Quantity::temperature, "temperature");
     describe(log, c, "temperature", c.unit, false);
@@ -127,7 +127,7 @@ UnitFactor temp_unit(const std::string& file, const ResolvedColumn& c, const Raw
 /// moves the terminal voltage by −ΔI·R0 when I is discharge positive, so Σ ΔV·ΔI over the
 /// larger steps is negative (Thevenin model; common practice); with no steps, the voltage falls
 /// under a sustained discharge.
-double detected_sign(const std::string& file, const fit::CellLog& log, std::string& how) {
+double detected_sign(const std::string& file, const battery::CellLog& log, std::string& how) {
   const std::size_t n = log.size();
   double imax = 0.0;
   for (double x : log.current_A) imax = std::max(imax, std::fabs(x));
@@ -173,7 +173,7 @@ std::string mode_meaning(const std::string& text) {
 }  // namespace
 
 CellUnits cell_units(const std::string& file, const CellColumns& cols, const RawRows& raw,
-                     const CellLogOptions& opts, fit::CellLog& log) {
+                     const CellLogOptions& opts, battery::CellLog& log) {
   CellUnits u;
   u.time = time_unit(file, cols.time, raw, log);
   u.voltage = voltage_unit(file, cols.voltage, raw, opts, log);
@@ -184,7 +184,7 @@ CellUnits cell_units(const std::string& file, const CellColumns& cols, const Raw
   return u;
 }
 
-void orient_current(const std::string& file, const CellLogOptions& opts, fit::CellLog& log) {
+void orient_current(const std::string& file, const CellLogOptions& opts, battery::CellLog& log) {
   double sign = 1.0;
   if (opts.discharge_positive) {
     sign = *opts.discharge_positive ? 1.0 : -1.0;
@@ -202,7 +202,7 @@ void orient_current(const std::string& file, const CellLogOptions& opts, fit::Ce
     for (double& x : log.current_A) x = -x;
 }
 
-void read_modes(const std::vector<std::string>& text, fit::CellLog& log) {
+void read_modes(const std::vector<std::string>& text, battery::CellLog& log) {
   if (text.empty()) return;
   // Text with no meaning of its own: rest at or below 1 % of the largest current (common
   // practice for a cycler's zero-current steps), else charge or discharge by the current's sign.

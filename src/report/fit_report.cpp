@@ -29,7 +29,7 @@ const char* anchor_key(fit::SocAnchor::Kind k) {
   return "";
 }
 
-std::string where(const fit::CellLog& log, const fit::CellFitResult& r, std::size_t row) {
+std::string where(const battery::CellLog& log, const fit::CellFitResult& r, std::size_t row) {
   const double soc = r.soc[row];
   return "line " + std::to_string(log.line[row]) + " (t = " + fixed(log.time_s[row] - log.time_s.front(), 1) +
          " s, SoC " + fixed(soc, 3) + ")" +
@@ -39,7 +39,7 @@ std::string where(const fit::CellLog& log, const fit::CellFitResult& r, std::siz
 
 }  // namespace
 
-std::string fit_cell_text(const fit::CellLog& log, const fit::CellFitResult& r,
+std::string fit_cell_text(const battery::CellLog& log, const fit::CellFitResult& r,
                           const fit::VoltageErrors& e, const std::string& model_file) {
   const auto& se = r.soc_estimate;
   std::string out = "sortie fit cell: " + log.file + " -> " + model_file + "\n\n";
@@ -155,7 +155,7 @@ std::string fit_cell_text(const fit::CellLog& log, const fit::CellFitResult& r,
   return out;
 }
 
-nlohmann::ordered_json fit_cell_json(const fit::CellLog& log, const fit::CellFitResult& r,
+nlohmann::ordered_json fit_cell_json(const battery::CellLog& log, const fit::CellFitResult& r,
                                      const fit::VoltageErrors& e, const std::string& model_file) {
   nlohmann::ordered_json j;
   j["schema"] = kFitCellSchema;
@@ -267,7 +267,7 @@ nlohmann::ordered_json fit_cell_json(const fit::CellLog& log, const fit::CellFit
   return j;
 }
 
-std::string fit_cell_trace_csv(const fit::CellLog& log, const fit::CellFitResult& r,
+std::string fit_cell_trace_csv(const battery::CellLog& log, const fit::CellFitResult& r,
                                const std::vector<double>& v_model) {
   std::string out = "time_s,line,current_A,v_measured_V,v_model_V,error_mV,soc\n";
   char buf[256];

@@ -4,7 +4,7 @@
 #include <nlohmann/json.hpp>
 #include <string>
 
-#include "fit/cell_log.hpp"
+#include "battery/cell_log.hpp"
 #include "fit/fit_cell.hpp"
 #include "fit/voltage_error.hpp"
 
@@ -13,12 +13,12 @@ namespace sortie::report {
 /// JSON report schema version.
 inline constexpr const char* kFitCellSchema = "sortie.fit_cell/1";
 
-std::string fit_cell_text(const fit::CellLog& log, const fit::CellFitResult& r,
+std::string fit_cell_text(const battery::CellLog& log, const fit::CellFitResult& r,
                           const fit::VoltageErrors& e, const std::string& model_file);
-nlohmann::ordered_json fit_cell_json(const fit::CellLog& log, const fit::CellFitResult& r,
+nlohmann::ordered_json fit_cell_json(const battery::CellLog& log, const fit::CellFitResult& r,
                                      const fit::VoltageErrors& e, const std::string& model_file);
 /// `time_s,line,current_A,v_measured_V,v_model_V,error_mV,soc`
-std::string fit_cell_trace_csv(const fit::CellLog& log, const fit::CellFitResult& r,
+std::string fit_cell_trace_csv(const battery::CellLog& log, const fit::CellFitResult& r,
                                const std::vector<double>& v_model);
 
 }  // namespace sortie::report

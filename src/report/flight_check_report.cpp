@@ -3,6 +3,7 @@
 #include <cmath>
 
 #include "report/html_page.hpp"
+#include "report/phase_number.hpp"
 #include "report/svg_plot.hpp"
 #include "report/text_table.hpp"
 
@@ -151,7 +152,7 @@ std::string flight_check_trace_csv(const sim::MeasuredFlight& log, const sim::Fl
     const bool in_plan = !c.phases.empty() && t <= c.phases.back().end_s + 1e-3;
     out += fixed(t, 3) + "," + num(log.voltage_V[k], 4) + "," + num(c.pred_V[k], 4) + "," + num(c.replay_V[k], 4) + "," +
            num(log.current_A[k], 4) + "," + num(c.pred_I[k], 4) + "," + num(c.meas_soc[k], 5) + "," +
-           num(c.pred_soc[k], 5) + "," + num(c.replay_soc[k], 5) + "," + (in_plan ? std::to_string(ph) : std::string()) + "\n";
+           num(c.pred_soc[k], 5) + "," + num(c.replay_soc[k], 5) + "," + (in_plan ? std::to_string(phase_number(ph)) : std::string()) + "\n";
   }
   return out;
 }

@@ -33,7 +33,7 @@ std::string list(const std::vector<std::string>& items) {
 
 }  // namespace
 
-std::string fit_cell_html(const fit::CellLog& log, const fit::CellFitResult& r, const fit::VoltageErrors& e,
+std::string fit_cell_html(const battery::CellLog& log, const fit::CellFitResult& r, const fit::VoltageErrors& e,
                           const std::vector<double>& v_model, const std::string& model_file) {
   html::Page page("Cell fit: " + log.file, "sortie fit cell · model written to " + model_file + " · " +
                                                std::to_string(r.rows) + " log rows");

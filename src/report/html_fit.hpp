@@ -6,7 +6,7 @@
 #include <string>
 #include <vector>
 
-#include "fit/cell_log.hpp"
+#include "battery/cell_log.hpp"
 #include "fit/fit_cell.hpp"
 #include "fit/fit_drive.hpp"
 #include "fit/voltage_error.hpp"
@@ -19,7 +19,7 @@ inline constexpr const char* kFitDrivePlots[] = {"fit-drive-thrust", "fit-drive-
                                                  "fit-drive-efficiency"};
 
 /// `v_model`: the written model re-simulated on the log's current, one value per log row.
-std::string fit_cell_html(const fit::CellLog& log, const fit::CellFitResult& r, const fit::VoltageErrors& e,
+std::string fit_cell_html(const battery::CellLog& log, const fit::CellFitResult& r, const fit::VoltageErrors& e,
                           const std::vector<double>& v_model, const std::string& model_file);
 std::string fit_drive_html(const std::string& bench_file, const fit::DriveFitResult& r, const std::string& model_file);
 

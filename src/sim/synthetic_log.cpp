@@ -195,8 +195,8 @@ SyntheticLog synthetic_pulse_test(const battery::Cell& cell, const PulseTestProt
   return run.take();
 }
 
-fit::CellLog to_cell_log(const SyntheticLog& s, const std::string& file) {
-  fit::CellLog log;
+battery::CellLog to_cell_log(const SyntheticLog& s, const std::string& file) {
+  battery::CellLog log;
   log.file = file;
   log.time_s = s.time_s;
   log.current_A = s.current_A;

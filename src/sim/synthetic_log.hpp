@@ -9,14 +9,14 @@
 ///   v_cutoff), short rest, charge
 ///   pulse (held at v_max by a constant-voltage phase if it would go above), short rest, a constant-current discharge of `step_soc`, long rest; the last
 ///   discharge runs to v_cutoff.
-/// Sample k's current flowed during (t_{k−1}, t_k] (fit::CellLog's convention); each interval is
+/// Sample k's current flowed during (t_{k−1}, t_k] (battery::CellLog's convention); each interval is
 /// one sim::run_segment at that constant current.
 #include <cstdint>
 #include <string>
 #include <vector>
 
 #include "battery/cell.hpp"
-#include "fit/cell_log.hpp"
+#include "battery/cell_log.hpp"
 
 namespace sortie::sim {
 
@@ -72,6 +72,6 @@ SyntheticLog synthetic_pulse_test(const battery::Cell& cell, const PulseTestProt
 
 /// The measured columns as the fit reads a log (time, current, voltage, and the temperature when
 /// logged), one section, lines numbered from 2 as under a header.
-fit::CellLog to_cell_log(const SyntheticLog& log, const std::string& file);
+battery::CellLog to_cell_log(const SyntheticLog& log, const std::string& file);
 
 }  // namespace sortie::sim

@@ -84,7 +84,7 @@ TEST_CASE("check: the trace has one row per log row and the plan's phase of each
   CHECK(rows == 1 + 740);  // header and the log's 740 rows
   CHECK(t.rfind("time_s,v_log_V,v_plan_V,v_replay_V,", 0) == 0);
   CHECK(t.find("\n80.000,") != std::string::npos);
-  CHECK(t.substr(t.find("\n81.000,")).substr(0, t.substr(t.find("\n81.000,")).find('\n', 1)).back() == '3');  // station north
+  CHECK(t.substr(t.find("\n81.000,")).substr(0, t.substr(t.find("\n81.000,")).find('\n', 1)).back() == '4');  // station north, phase 4 (numbered from 1)
 }
 
 TEST_CASE("check: columns by number with units") {

@@ -20,22 +20,22 @@ TEST_SUITE("ornl") {
 TEST_CASE("ornl: the SoC filter on the measured 1C discharges follows Coulomb counting from full") {
   if (!test::open_dataset("ornl-pouch-33Ah", "hppc-25C.csv")) return;
   const std::string dir = (test::open_data_root() / "ornl-pouch-33Ah").string() + "/";
-  const fit::CellLog hppc = io::load_cell_log(dir + "hppc-25C.csv", io::CellLogOptions{});
+  const battery::CellLog hppc = io::load_cell_log(dir + "hppc-25C.csv", io::CellLogOptions{});
   const fit::CellFitResult fit = fit::fit_cell(hppc, fit::CellFitOptions{});
   battery::Pack pack;
   pack.cell = fit.cell;
   io::CellLogOptions o;  // columns as SOURCE.md lists them; current positive on charge
   o.columns = io::parse_column_spec("time=2,current=9,voltage=10,exclude=1,mode=14", io::cell_log_quantities());
   o.discharge_positive = false;
-  const fit::CellLog log = io::load_cell_log(dir + "discharge-1C.csv", o);
+  const battery::CellLog log = io::load_cell_log(dir + "discharge-1C.csv", o);
   int sections = 0;
   for (std::size_t k = 1; k + 1 < log.size(); ++k) {
-    if (log.mode[k] != "DCHG" || log.mode[k - 1] == "DCHG") continue;
+    if (log.mode[k] != "discharge" || log.mode[k - 1] == "discharge") continue;
     sim::MeasuredFlight f;  // from the rest sample before the step
     f.time_s.push_back(0.0);
     f.current_A.push_back(0.0);
     f.voltage_V.push_back(log.voltage_V[k - 1]);
-    for (std::size_t j = k; j < log.size() && log.mode[j] == "DCHG"; ++j) {
+    for (std::size_t j = k; j < log.size() && log.mode[j] == "discharge"; ++j) {
       f.time_s.push_back(log.time_s[j] - log.time_s[k - 1]);
       f.current_A.push_back(log.current_A[j]);
       f.voltage_V.push_back(log.voltage_V[j]);

@@ -12,7 +12,7 @@ using namespace sortie;
 namespace {
 
 /// Steps at temperatures t_C over a cell of R0 = 20 mΩ, E_a 40 kJ/mol, reference 25 °C.
-void make(const std::vector<double>& t_C, fit::CellLog& log, std::vector<fit::CurrentStep>& steps) {
+void make(const std::vector<double>& t_C, battery::CellLog& log, std::vector<fit::CurrentStep>& steps) {
   for (std::size_t i = 0; i < t_C.size(); ++i) {
     log.time_s.push_back(static_cast<double>(i));
     log.current_A.push_back(1.0);
@@ -31,7 +31,7 @@ void make(const std::vector<double>& t_C, fit::CellLog& log, std::vector<fit::Cu
 TEST_SUITE("fit") {
 
 TEST_CASE("arrhenius: steps over 10 to 40 °C give E_a back and the factor table is 1 at the reference") {
-  fit::CellLog log;
+  battery::CellLog log;
   std::vector<fit::CurrentStep> steps;
   make({10, 15, 20, 25, 30, 35, 40, 12, 28, 38}, log, steps);
   battery::Cell cell;
@@ -46,7 +46,7 @@ TEST_CASE("arrhenius: steps over 10 to 40 °C give E_a back and the factor table
 }
 
 TEST_CASE("arrhenius: a spread of 3 K gives the 30 kJ/mol prior and says so") {
-  fit::CellLog log;
+  battery::CellLog log;
   std::vector<fit::CurrentStep> steps;
   make({24, 25, 26, 27, 24.5, 25.5, 26.5}, log, steps);
   battery::Cell cell;

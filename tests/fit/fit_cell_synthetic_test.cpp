@@ -112,7 +112,7 @@ TEST_CASE("fit cell: the written model re-simulated on the log's current matches
   const battery::Cell truth = io::load_cell_file(test::source_path(test::kDemoLogCell));
   MESSAGE("seed " << test::kDemoLogSeed);
   const sim::SyntheticLog s = sim::synthetic_pulse_test(truth, sim::PulseTestProtocol{}, test::demo_log_noise());
-  const fit::CellLog log = sim::to_cell_log(s, "synthetic");
+  const battery::CellLog log = sim::to_cell_log(s, "synthetic");
   const fit::CellFitResult r = fit::fit_cell(log, lipo_options());
   battery::Pack pack;
   pack.cell = r.cell;

@@ -42,7 +42,7 @@ std::vector<Section> dchg_sections(const std::string& file) {
   io::CellLogOptions o;
   o.columns = io::parse_column_spec("time=2,current=9,voltage=10,exclude=1,mode=14", io::cell_log_quantities());
   o.discharge_positive = false;  // SOURCE.md: positive on charge
-  const fit::CellLog log = io::load_cell_log(kDir + file, o);
+  const battery::CellLog log = io::load_cell_log(kDir + file, o);
   std::vector<Section> out;
   for (std::size_t k = 0; k + 1 < log.size(); ++k) {
     if (log.mode[k] != "discharge" || (k > 0 && log.mode[k - 1] == "discharge")) continue;
@@ -77,7 +77,7 @@ TEST_SUITE("ornl") {
 TEST_CASE("ornl: a model fitted on the 25 °C pulse test runs the measured discharges at 1C to 3C") {
   if (!test::open_dataset("ornl-pouch-33Ah", "hppc-25C.csv")) return;
   io::CellLogOptions lo;  // the header names the columns; the current sign is detected
-  const fit::CellLog hppc = io::load_cell_log(kDir + "hppc-25C.csv", lo);
+  const battery::CellLog hppc = io::load_cell_log(kDir + "hppc-25C.csv", lo);
   const fit::CellFitResult fit = fit::fit_cell(hppc, fit::CellFitOptions{});
   // What `sortie fit cell` writes, read back through the loader.
   const nlohmann::ordered_json j = io::cell_to_json(fit.cell, fit.note);
@@ -137,7 +137,7 @@ TEST_CASE("ornl: a model fitted on the 25 °C pulse test runs the measured disch
 TEST_CASE("ornl: a model fitted on the pulse test and the 3C discharges runs the measured 1C to 3C discharges") {
   if (!test::open_dataset("ornl-pouch-33Ah", "discharge-3C.csv")) return;
   io::CellLogOptions lo;
-  std::vector<fit::CellLog> logs{io::load_cell_log(kDir + "hppc-25C.csv", lo)};
+  std::vector<battery::CellLog> logs{io::load_cell_log(kDir + "hppc-25C.csv", lo)};
   io::CellLogOptions o3;
   o3.columns = io::parse_column_spec("time=2,current=9,voltage=10,exclude=1,mode=14", io::cell_log_quantities());
   o3.discharge_positive = false;

@@ -17,7 +17,7 @@ namespace {
 struct Case {
   battery::Cell cell;
   sim::SyntheticLog s;
-  fit::CellLog log;
+  battery::CellLog log;
 };
 
 Case noise_free() {
@@ -114,7 +114,7 @@ TEST_CASE("rc fit: merging held-current rows keeps the cost and the fitted pairs
   sim::PulseTestProtocol proto;
   proto.sample_s = proto.pulse_sample_s = proto.rest_sample_s = 0.05;
   const sim::SyntheticLog s = sim::synthetic_pulse_test(cell, proto, none);
-  fit::CellLog log;
+  battery::CellLog log;
   log.file = "synthetic";
   log.time_s = s.time_s, log.current_A = s.current_A, log.voltage_V = s.voltage_V;
   log.line.resize(s.time_s.size());
@@ -146,7 +146,7 @@ TEST_CASE("rc fit: merging held-current rows keeps the cost and the fitted pairs
 }
 
 TEST_CASE("rc fit: a current step shows R = -dV/dI") {
-  fit::CellLog log;
+  battery::CellLog log;
   log.time_s = {0, 1, 2, 3};
   log.current_A = {0, 0, 5, 5};
   log.voltage_V = {3.8, 3.8, 3.75, 3.749};

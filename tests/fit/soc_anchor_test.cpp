@@ -24,8 +24,8 @@ namespace {
 
 /// A log at 1 s: `phases` of (current A, seconds, voltage at the end), the voltage moving
 /// linearly through each phase.
-fit::CellLog make_log(const std::vector<std::array<double, 3>>& phases, double v0) {
-  fit::CellLog log;
+battery::CellLog make_log(const std::vector<std::array<double, 3>>& phases, double v0) {
+  battery::CellLog log;
   log.file = "log.csv";
   double t = 0.0, v = v0;
   log.time_s.push_back(0.0), log.current_A.push_back(0.0), log.voltage_V.push_back(v0), log.line.push_back(2);
@@ -45,7 +45,7 @@ fit::CellLog make_log(const std::vector<std::array<double, 3>>& phases, double v
 
 /// The synthetic pulse test from the rest after its full charge down to the first row below
 /// SoC 0.1 (the model's own SoC): a log that never reaches empty.
-fit::CellLog cut_log(const sim::SyntheticLog& s) {
+battery::CellLog cut_log(const sim::SyntheticLog& s) {
   std::size_t first = 0;  // the first rest row after the charge: the CV phase ends there
   while (first < s.time_s.size() && !(s.i_true_A[first] == 0.0 && s.soc_true[first] > 0.95)) ++first;
   std::size_t last = first;
@@ -128,7 +128,7 @@ TEST_CASE("fit cell: a pulse test cut off at SoC 0.1 is refused without --soc0 a
     sim::MeasurementNoise noise;
     noise.seed = seed;
     const sim::SyntheticLog s = sim::synthetic_pulse_test(truth, sim::PulseTestProtocol{}, noise);
-    const fit::CellLog log = cut_log(s);
+    const battery::CellLog log = cut_log(s);
     // No chemistry, no --soc0: nothing in the log is a known point (it starts rested at 4.2 V,
     // but without a chemistry that is no known full voltage, and it never reaches empty).
     CHECK_THROWS_WITH_AS(fit::fit_cell(log, fit::CellFitOptions{}), doctest::Contains("no known full or empty point"),

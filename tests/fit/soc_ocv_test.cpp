@@ -16,8 +16,8 @@ namespace {
 
 /// A log at 1 s: `phases` of (current A, seconds, voltage at the end); the voltage moves
 /// linearly through each phase from the previous end (enough for anchors and rests).
-fit::CellLog make_log(const std::vector<std::array<double, 3>>& phases, double v0) {
-  fit::CellLog log;
+battery::CellLog make_log(const std::vector<std::array<double, 3>>& phases, double v0) {
+  battery::CellLog log;
   log.file = "log.csv";
   double t = 0.0, v = v0;
   log.time_s.push_back(0.0), log.current_A.push_back(0.0), log.voltage_V.push_back(v0), log.line.push_back(2);

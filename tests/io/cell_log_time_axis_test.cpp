@@ -1,5 +1,5 @@
 // The cell log's time axis is finite and strictly increasing, whatever the file's times are
-// (fit::CellLog promises it; sim::replay relies on it).
+// (battery::CellLog promises it; sim::replay relies on it).
 #include <doctest/doctest.h>
 
 #include <string>

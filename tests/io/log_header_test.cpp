@@ -19,7 +19,7 @@ using namespace sortie;
 
 namespace {
 
-fit::CellLog read(const std::string& text, io::CellLogOptions o = {}) {
+battery::CellLog read(const std::string& text, io::CellLogOptions o = {}) {
   return io::read_cell_log(io::parse_delimited(text, "log.csv"), o);
 }
 

@@ -5,7 +5,7 @@
 #include <string>
 #include <vector>
 
-namespace sortie::fit {
+namespace sortie::battery {
 
 struct CellLog {
   std::string file;                 ///< as shown in messages
@@ -27,4 +27,4 @@ struct CellLog {
   bool starts_section(std::size_t k) const;
 };
 
-}  // namespace sortie::fit
+}  // namespace sortie::battery

@@ -1,11 +1,11 @@
-#include "fit/cell_log.hpp"
+#include "battery/cell_log.hpp"
 
 #include <algorithm>
 
-namespace sortie::fit {
+namespace sortie::battery {
 
 bool CellLog::starts_section(std::size_t k) const {
   return std::binary_search(section_starts.begin(), section_starts.end(), k);
 }
 
-}  // namespace sortie::fit
+}  // namespace sortie::battery
