@@ -1,6 +1,7 @@
 // `sortie check LOG.csv --profile P.json`: a flown log against the planned profile, and the
 // pack model replayed on the logged current.
 #include "cli/commands.hpp"
+#include "cli/log_check.hpp"
 #include "cli/number_option.hpp"
 #include "cli/report_output.hpp"
 #include "cli/run.hpp"
@@ -24,16 +25,10 @@ struct CheckOptions {
 
 int run_check(const CheckOptions& o) {
   const bool print = print_format(o.report, {{"--json", &o.json_file}, {"--trace", &o.trace_file}}, o.quiet);
-  const auto cols = o.columns.empty() ? std::map<std::string, io::ColumnRef>{}
-                                      : io::parse_column_spec(o.columns, io::flight_log_quantities());
-  const io::FlightLog fl = io::read_flight_log_file(o.log, cols);
   const io::LoadedProfile lp = io::load_profile_file(o.profile, o.pack);
-  sim::SimOptions so;
-  so.sample_s = 1.0;
-  const sim::MissionResult plan = sim::simulate(lp.mission, so);
-  if (plan.refused) throw InputError(io::refusal_message(lp, plan));
-  sim::MeasuredFlight mf{fl.time_s, fl.voltage_V, fl.current_A, fl.lines};
-  const sim::FlightCheck c = sim::check_flight(lp.mission, plan, mf, o.log);
+  const LogAgainstPlan r = check_log_against_plan(o.log, o.columns, lp);
+  const sim::MeasuredFlight& mf = r.flight;
+  const sim::FlightCheck& c = r.check;
   const std::string json = report::flight_check_json(o.log, o.profile, c).dump(2) + "\n";
   const std::string page = o.report.html_file.empty() ? "" : report::flight_check_html(o.log, o.profile, mf, c);
   const std::string trace = o.trace_file.empty() ? "" : report::flight_check_trace_csv(mf, c);

@@ -3,6 +3,7 @@
 #include <filesystem>
 
 #include "cli/commands.hpp"
+#include "cli/log_check.hpp"
 #include "cli/logbook_pack.hpp"
 #include "cli/number_option.hpp"
 #include "cli/report_output.hpp"
@@ -129,18 +130,12 @@ int run_add_flight(const LogbookOptions& o) {
   // The check, as `sortie check LOG --profile P` with the pack as stored in the logbook (its own
   // soh block: the plan as it would have been made from the pack file).
   const LogbookPack lb = logbook_pack(db, o.pack_id, false);
-  const auto cols = o.columns.empty() ? std::map<std::string, io::ColumnRef>{}
-                                      : io::parse_column_spec(o.columns, io::flight_log_quantities());
-  const io::FlightLog fl = io::read_flight_log_file(o.log, cols);
   io::LoadedProfile lp = io::load_profile_file(o.profile);
   lp.mission.pack = lb.pack;
   io::check_profile(lp);
-  sim::SimOptions so;
-  so.sample_s = 1.0;
-  const sim::MissionResult plan = sim::simulate(lp.mission, so);
-  if (plan.refused) throw InputError(io::refusal_message(lp, plan));
-  sim::MeasuredFlight mf{fl.time_s, fl.voltage_V, fl.current_A, fl.lines};
-  const sim::FlightCheck c = sim::check_flight(lp.mission, plan, mf, o.log);
+  const LogAgainstPlan r = check_log_against_plan(o.log, o.columns, lp);
+  const sim::MeasuredFlight& mf = r.flight;
+  const sim::FlightCheck& c = r.check;
   // The state of health from this flight (start SoC fitted).
   const estimate::HealthEstimate h = estimate::estimate_health(lb.pack, {{o.log, mf, std::nullopt, ""}});
 

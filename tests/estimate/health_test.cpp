@@ -11,16 +11,11 @@
 #include "io/profile_json.hpp"
 #include "sim/mission.hpp"
 #include "support/cli.hpp"
+#include "support/normal.hpp"
 
 using namespace sortie;
 
 namespace {
-
-double normal(std::mt19937& g) {
-  const double u1 = (static_cast<double>(g()) + 0.5) / 4294967296.0;
-  const double u2 = (static_cast<double>(g()) + 0.5) / 4294967296.0;
-  return std::sqrt(-2.0 * std::log(u1)) * std::cos(2.0 * M_PI * u2);
-}
 
 struct Truth {
   double capacity = 0.85, resistance = 1.3, soc0 = 0.95;
@@ -52,8 +47,8 @@ sim::MeasuredFlight fly(const sim::Mission& base, const Truth& t, unsigned seed)
   sim::MeasuredFlight f;
   for (const auto& p : r.trace) {
     f.time_s.push_back(p.s.t);
-    f.voltage_V.push_back(p.s.term.v_terminal_V + t.sigma_V * normal(g));
-    f.current_A.push_back(p.s.term.current_A + t.sigma_A * normal(g));
+    f.voltage_V.push_back(p.s.term.v_terminal_V + t.sigma_V * test::normal(g));
+    f.current_A.push_back(p.s.term.current_A + t.sigma_A * test::normal(g));
     f.lines.push_back(f.lines.size() + 2);
   }
   return f;

@@ -10,16 +10,11 @@
 #include "io/profile_json.hpp"
 #include "sim/mission.hpp"
 #include "support/cli.hpp"
+#include "support/normal.hpp"
 
 using namespace sortie;
 
 namespace {
-
-double normal(std::mt19937& g) {
-  const double u1 = (static_cast<double>(g()) + 0.5) / 4294967296.0;
-  const double u2 = (static_cast<double>(g()) + 0.5) / 4294967296.0;
-  return std::sqrt(-2.0 * std::log(u1)) * std::cos(2.0 * M_PI * u2);
-}
 
 struct Flown {
   sim::MeasuredFlight log;
@@ -45,8 +40,8 @@ Flown fly(unsigned seed, double soc0 = 0.95) {
   std::mt19937 g(seed);
   for (const auto& p : r.trace) {
     f.log.time_s.push_back(p.s.t);
-    f.log.voltage_V.push_back(p.s.term.v_terminal_V + 0.02 * normal(g));
-    f.log.current_A.push_back(p.s.term.current_A + 0.05 * normal(g));
+    f.log.voltage_V.push_back(p.s.term.v_terminal_V + 0.02 * test::normal(g));
+    f.log.current_A.push_back(p.s.term.current_A + 0.05 * test::normal(g));
     f.truth.push_back({p.s.x[battery::kSoc], p.s.x[battery::kV1], p.s.x[battery::kV2], p.s.x[battery::kTemp]});
   }
   return f;

@@ -13,6 +13,7 @@
 #include "io/profile_json.hpp"
 #include "sim/mission.hpp"
 #include "support/cli.hpp"
+#include "support/normal.hpp"
 
 using namespace sortie;
 
@@ -23,12 +24,6 @@ constexpr double kSoh = 0.85, kSigmaV = 0.02, kSigmaA = 0.05;
 
 /// Standard normal from mt19937 words by Box–Muller (the engine's output is fixed by the C++
 /// standard; std::normal_distribution's algorithm is not, so it is not used for a bundled file).
-double normal(std::mt19937& g) {
-  const double u1 = (static_cast<double>(g()) + 0.5) / 4294967296.0;
-  const double u2 = (static_cast<double>(g()) + 0.5) / 4294967296.0;
-  return std::sqrt(-2.0 * std::log(u1)) * std::cos(2.0 * M_PI * u2);
-}
-
 std::string demo_flight_csv() {
   io::LoadedProfile lp = io::load_profile_file(test::source_path("profiles/demo-quad-water-tank.json"));
   lp.mission.pack.soh_capacity = kSoh;
@@ -44,8 +39,8 @@ std::string demo_flight_csv() {
       "Time (s),Voltage (V),Current (A),Altitude (m),Throttle (%)\n";
   char buf[160];
   for (const auto& p : r.trace) {
-    const double v = p.s.term.v_terminal_V + kSigmaV * normal(g);
-    const double i = p.s.term.current_A + kSigmaA * normal(g);
+    const double v = p.s.term.v_terminal_V + kSigmaV * test::normal(g);
+    const double i = p.s.term.current_A + kSigmaA * test::normal(g);
     std::snprintf(buf, sizeof buf, "%.3f,%.3f,%.3f,%.1f,%.1f\n", p.s.t, v, i, p.height_m, 100.0 * p.duty);
     out += buf;
   }
