@@ -74,7 +74,7 @@ const battery::Pack& demo_pack() {
 }
 
 /// A model that passed validation must simulate to numbers: a NaN or an infinity here means a
-/// range check is missing at load (STYLE.md rule 6), so it is a bug like a crash.
+/// range check is missing at load (docs/style.md rule 6), so it is a bug like a crash.
 void require_finite(double v, const char* what) {
   if (!std::isfinite(v)) throw std::logic_error(std::string("non-finite ") + what + " from a model that loaded");
 }

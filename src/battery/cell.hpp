@@ -22,7 +22,7 @@ struct TemperatureEffect {
   Table capacity_factor{1.0};  ///< multiplies the capacity
 };
 
-/// Lumped thermal model of one cell (DESIGN.md "Physics"): one temperature for the whole cell,
+/// Lumped thermal model of one cell (docs/physics.md): one temperature for the whole cell,
 ///   m·c·dT/dt = I²·R0 + Σ v_k²/R_k − hA·(T − T_air)
 /// (the irreversible heat of the equivalent circuit; the reversible, entropic heat is left out).
 struct Thermal {

@@ -14,7 +14,7 @@ PackModel::PackModel(const Pack& p)
       n_rc(p.cell.rc.size()) {
   const double sp = static_cast<double>(p.series) / p.parallel;
   const double rf = p.cell.r_factor(p.temperature_C);
-  // R0_pack = S/P·R0_cell·soh_resistance·r_factor(T) + R_wiring (DESIGN.md)
+  // R0_pack = S/P·R0_cell·soh_resistance·r_factor(T) + R_wiring (docs/physics.md)
   Table r0 = p.cell.r0_ohm.scaled(sp * p.soh_resistance * rf);
   std::vector<double> y = r0.y();
   for (double& v : y) v += p.wiring_ohm;
@@ -82,13 +82,13 @@ Terminal solve_terminal(double emf_V, double r0_ohm, double ocv_V, const Demand&
 Terminal Thevenin::terminal(const State& x, double t) const {
   const double soc = x[kSoc];
   const double ocv = pack.ocv_pack(soc);
-  // E = S·OCV − v1 − v2 (DESIGN.md)
+  // E = S·OCV − v1 − v2 (docs/physics.md)
   const double emf = ocv - x[kV1] - x[kV2];
   return solve_terminal(emf, pack.r0_pack(soc, x[kTemp]), ocv, demand, t);
 }
 
 void Thevenin::operator()(const State& x, State& dxdt, double t) const {
-  // Each table once per call: the RHS is the hot path (STYLE.md).
+  // Each table once per call: the RHS is the hot path (docs/style.md).
   const double soc = x[kSoc];
   const double rs = pack.r_scale(x[kTemp]);
   const double r0_table = pack.r0_pack_ohm(soc);

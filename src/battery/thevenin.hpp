@@ -1,7 +1,7 @@
 #pragma once
 /// Thevenin equivalent-circuit dynamics of a pack (G. Plett, Battery Management Systems, Vol. I,
 /// 2015, ch. 2), as an Odeint right-hand side. Per cell: OCV(SoC) source, series R0, up to two
-/// RC pairs; the pack scales them by S/P (DESIGN.md "Physics").
+/// RC pairs; the pack scales them by S/P (docs/physics.md).
 #include <array>
 #include <cstddef>
 
@@ -98,7 +98,7 @@ struct Terminal {
 /// that an integrator can step on while the event locator brackets the crossing D = 0.
 Terminal solve_terminal(double emf_V, double r0_ohm, double ocv_V, const Demand& d, double t);
 
-/// Odeint right-hand side (STYLE.md rule 2):
+/// Odeint right-hand side (docs/style.md rule 2):
 ///   dSoC/dt = −I/C_pack,   dv_k/dt = −v_k/τ_k + I·R_k/τ_k,   dq/dt = I,   dE/dt = V·I,
 ///   per cell m·c·dT/dt = (I²·R0_cells + Σ v_k²/R_k)/(S·P) − hA·(T − T_air)  (thermal model;
 ///   R0_cells is the pack's series resistance without the wiring, whose heat is not in a cell)

@@ -223,7 +223,7 @@ struct FitDriveOptions {
   std::string bench_file, out_file, columns;
   std::optional<double> diameter_m;
   int rotors = 1;
-  double rho_kg_m3 = 1.225;
+  std::optional<double> rho_kg_m3;
   std::optional<double> motor_i_max_A, esc_i_max_A, duty_max;
   std::string name, report_file, json_file;
   std::string html_file;

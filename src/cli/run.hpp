@@ -3,7 +3,7 @@
 
 namespace sortie::cli {
 
-/// Exit codes (DESIGN.md): 0 done (and `fly` go), 3 `fly` no-go, 1 bad input, 2 bad usage.
+/// Exit codes (docs/architecture.md "Results and errors"): 0 done (and `fly` go), 3 `fly` no-go, 1 bad input, 2 bad usage.
 inline constexpr int kExitOk = 0;
 inline constexpr int kExitBadInput = 1;
 inline constexpr int kExitUsage = 2;

@@ -1,5 +1,5 @@
 #pragma once
-/// The one small exception family for bad input and bad usage (STYLE.md rule 7).
+/// The one small exception family for bad input and bad usage (docs/style.md rule 7).
 /// Expected endings of a simulation (cutoff, reserve crossed) are results, never exceptions.
 #include <stdexcept>
 #include <string>

@@ -9,7 +9,7 @@
 /// published Arrhenius fits of whole Li-ion cells' resistance give about 20–50 kJ/mol (the
 /// electrolyte's ohmic part lower, the charge transfer higher); 30 kJ/mol is taken.
 ///
-/// Thermal block bounds (DESIGN.md "Physics": m·c·dT/dt = q − hA·(T − T_air)):
+/// Thermal block bounds (docs/physics.md: m·c·dT/dt = q − hA·(T − T_air)):
 ///   c: 700–1400 J/(kg·K), default 1000 — from memory: measured specific heats of lithium cells
 ///      are about 0.8–1.2 kJ/(kg·K);
 ///   area: from the mass at a density of 2500 kg/m³ (from memory: lithium cells are about

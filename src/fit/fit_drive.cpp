@@ -1,5 +1,7 @@
 #include "fit/fit_drive.hpp"
 
+#include "core/constants.hpp"
+
 #include <algorithm>
 #include <array>
 #include <cmath>
@@ -92,7 +94,7 @@ double rms(const std::vector<double>& v) {
 
 DriveFitResult fit_drive(const propulsion::BenchMap& bench, const DriveFitOptions& opts) {
   DriveFitResult out;
-  const double rho = opts.rho_kg_m3, D = opts.diameter_m;
+  const double rho = opts.rho_kg_m3.value_or(core::kSeaLevelDensity), D = opts.diameter_m;
   const std::string file = opts.file.empty() ? std::string("bench") : opts.file;
   out.has_torque = bench.has_torque;
 
@@ -268,7 +270,7 @@ DriveFitResult fit_drive(const propulsion::BenchMap& bench, const DriveFitOption
   out.notes.push_back("duty = throttle × duty_max with duty_max " + format_fixed(duty_max, 3) +
                       (opts.duty_max ? "" : " (give --duty-max for the ESC's)") +
                       " (a linear throttle response); air density " + format_fixed(rho, 3) + " kg/m³" +
-                      (rho == 1.225 ? " (ISA sea level; give --air-density-kg-m3)" : ""));
+                      (opts.rho_kg_m3 ? "" : " (ISA sea level; give --air-density-kg-m3)"));
 
   // --- every row through the propulsion model as `sortie drive` runs it ---
   std::vector<double> e_rpm, e_thrust, e_power, e_torque;

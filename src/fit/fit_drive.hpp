@@ -3,7 +3,7 @@
 /// rotor: motor Kv, Rm and I0, the ESC losses (idle, on-resistance, switching) and the static
 /// CT and CP of the prop, by bounded Levenberg–Marquardt (fit/levenberg_marquardt).
 ///
-/// The model is the one `sortie drive` and `sortie fly` run (DESIGN.md "Physics — Propulsion"),
+/// The model is the one `sortie drive` and `sortie fly` run (docs/physics.md "Propulsion"),
 /// at J = 0 with a constant I0, and with the ESC's duty following the throttle command as
 /// `sortie drive` reads it, d = duty_max·throttle/100 (a linear throttle response, common
 /// practice on a bench with the ESC's throttle curve left linear; duty_max 1 unless given):
@@ -12,7 +12,7 @@
 ///   below V_m = Rm·I0: ω = 0, I_m = V_m/Rm)
 ///   T = CT·ρ·n²·D⁴;  P_bus = V_m·I_m + P_idle + R_on·I_m² + k_sw·V_bus·I_m
 /// (M. Drela, "First-Order DC Electric Motor Model", MIT, 2007, for the motor; the ESC loss law
-/// is DESIGN.md's). Residuals are relative, in per cent of each measured value: rpm, thrust and
+/// is docs/physics.md's). Residuals are relative, in per cent of each measured value: rpm, thrust and
 /// bus power at every row (bus power alone at rows where the motor stands), and shaft torque
 /// when the bench measures it.
 #include <optional>
@@ -28,7 +28,8 @@ namespace sortie::fit {
 struct DriveFitOptions {
   double diameter_m = 0.0;      ///< prop diameter, m (needed for CT and CP)
   int rotors = 1;               ///< rotors of the drive written
-  double rho_kg_m3 = 1.225;     ///< air density on the bench (ISA sea level by default)
+  /// Air density on the bench, kg/m³; none: ISA sea level, and the notes say it was assumed.
+  std::optional<double> rho_kg_m3;
   std::string name;             ///< default: "drive fitted from <file>"
   std::string file;             ///< the bench file, for names and messages
   std::optional<double> motor_i_max_A;

@@ -47,7 +47,7 @@ struct FixedWing {
 
 using Airframe = std::variant<Multirotor, FixedWing>;
 
-/// All-up mass = mass_empty_kg + payload_kg + pack mass (DESIGN.md "mass"), kg.
+/// All-up mass = mass_empty_kg + payload_kg + pack mass (docs/physics.md "Mass"), kg.
 double all_up_mass_kg(const Airframe& a, double pack_mass_kg);
 /// The maximum take-off mass the airframe states, kg (none: not given).
 std::optional<double> mtom_kg(const Airframe& a);

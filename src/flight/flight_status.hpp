@@ -1,6 +1,6 @@
 #pragma once
 /// How a steady flight condition came out: fine, fine with a warning, or refused. These are
-/// results (STYLE.md rule 7): the caller decides whether a refused condition ends a mission.
+/// results (docs/style.md rule 7): the caller decides whether a refused condition ends a mission.
 namespace sortie::flight {
 
 enum class FlightStatus {

@@ -1,6 +1,6 @@
 #pragma once
 /// A mission as the planner writes it: phases flown in order and the reserve rules that must
-/// hold (DESIGN.md "Profile"). Plain data, SI.
+/// hold (docs/formats.md "Profile"). Plain data, SI.
 #include <optional>
 #include <string>
 #include <vector>

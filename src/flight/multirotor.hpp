@@ -89,7 +89,7 @@ struct RotorDemand {
 
 /// Steady flight at horizontal airspeed V ≥ 0 and vertical rate V_z (climb positive), for
 /// all-up mass m, air density ρ and `rotors` rotors of disk area A each. The rotors balance
-/// weight and body drag (DESIGN.md "Flight"):
+/// weight and body drag (docs/physics.md "Flight"):
 ///   T_x = D = ½·ρ·V²·CdA,   T_z = W + ½·ρ·V_z·|V_z|·CdA_v,   T = √(T_x² + T_z²),
 ///   α = atan(T_x / T_z)
 /// with T_z raised by the download, T_z = (W + D_z)/(1 − f).

@@ -1,5 +1,5 @@
 #pragma once
-/// Airframe models and a profile's environment from JSON (DESIGN.md "File shapes"), validated
+/// Airframe models and a profile's environment from JSON (docs/formats.md), validated
 /// once at load.
 #include <filesystem>
 #include <string>

@@ -1,5 +1,5 @@
 #pragma once
-/// Cell and pack models from JSON (DESIGN.md "File shapes"), validated once at load.
+/// Cell and pack models from JSON (docs/formats.md), validated once at load.
 #include <filesystem>
 #include <string>
 

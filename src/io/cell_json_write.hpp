@@ -1,5 +1,5 @@
 #pragma once
-/// A cell model as JSON in the shape io::read_cell reads (DESIGN.md "File shapes — Cell"), keys
+/// A cell model as JSON in the shape io::read_cell reads (docs/formats.md "Cell"), keys
 /// in the documented order. Numbers are rounded to what a measurement can carry (OCV to 10 µV,
 /// resistances to 5 significant digits, time constants to 4 significant digits) and OCV kept strictly rising.
 #include <nlohmann/json.hpp>

@@ -1,5 +1,5 @@
 #pragma once
-/// Drive models from JSON (DESIGN.md "File shapes — Drive"), validated once at load.
+/// Drive models from JSON (docs/formats.md "Drive"), validated once at load.
 /// `prop`, `motor` and `esc` may each be inline or a path relative to the drive's file.
 #include <filesystem>
 #include <string>

@@ -1,5 +1,5 @@
 #pragma once
-/// A drive model as JSON in the shape io::read_drive reads (DESIGN.md "File shapes — Drive"),
+/// A drive model as JSON in the shape io::read_drive reads (docs/formats.md "Drive"),
 /// keys in the documented order, numbers to 5 significant digits.
 #include <nlohmann/json.hpp>
 #include <string>

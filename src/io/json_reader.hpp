@@ -1,5 +1,5 @@
 #pragma once
-/// Reading model files: JSON objects with their keys checked once, at load (STYLE.md rule 6).
+/// Reading model files: JSON objects with their keys checked once, at load (docs/style.md rule 6).
 /// Every error names the file, the JSON pointer, the value and what was expected.
 #include <cstddef>
 #include <filesystem>

@@ -1,5 +1,5 @@
 #pragma once
-/// Mission phases and reserve rules from a profile (DESIGN.md "Profile").
+/// Mission phases and reserve rules from a profile (docs/formats.md "Profile").
 #include "flight/mission.hpp"
 #include "io/json_reader.hpp"
 

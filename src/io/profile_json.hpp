@@ -1,5 +1,5 @@
 #pragma once
-/// A whole profile (DESIGN.md "Profile"): airframe, drive and pack (inline or relative paths),
+/// A whole profile (docs/formats.md "Profile"): airframe, drive and pack (inline or relative paths),
 /// environment, phases and reserve, checked against each other once at load.
 #include <filesystem>
 #include <string>

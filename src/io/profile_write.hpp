@@ -1,5 +1,5 @@
 #pragma once
-/// A profile written back as the loader reads it (DESIGN.md "Profile"): the base profile's
+/// A profile written back as the loader reads it (docs/formats.md "Profile"): the base profile's
 /// airframe, drive, pack, avionics, environment and reserve with new phases. Model paths are
 /// rewritten relative to the folder the new file goes to.
 #include <filesystem>

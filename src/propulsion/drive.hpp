@@ -1,6 +1,6 @@
 #pragma once
 /// A drive: N identical rotors, each a propeller on a motor fed by its own ESC from the common
-/// bus (DESIGN.md "File shapes — Drive"). Plain data, SI inside.
+/// bus (docs/formats.md "Drive"). Plain data, SI inside.
 #include <string>
 
 #include "propulsion/esc.hpp"

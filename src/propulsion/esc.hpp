@@ -2,7 +2,7 @@
 /// Electronic speed controller: a PWM stage that presents V_m = d·V_bus to the motor
 /// (d ≤ duty_max) and loses
 ///   loss = P_idle + R_on·I_m² + k_switch·V_bus·I_m
-/// (DESIGN.md "Physics — Propulsion"). The conduction term is the motor current through the
+/// (docs/physics.md "Propulsion"). The conduction term is the motor current through the
 /// on-resistance of the conducting switches; the switching term grows with the voltage switched
 /// and the current carried, not with the duty, while the power delivered does, so ESC
 /// efficiency falls at low duty (common practice; the model has no dead-time, gate-drive or

@@ -1,7 +1,7 @@
 #pragma once
 /// The operating point of one rotor: the thrust it must give, at an axial airspeed and air
 /// density, turned into motor speed, current and voltage (bus-independent), then into duty,
-/// ESC loss and bus power at a bus voltage (DESIGN.md "Physics — Propulsion").
+/// ESC loss and bus power at a bus voltage (docs/physics.md "Propulsion").
 ///
 /// Motor side (solve_motor): n from T = CT(V/(n·D))·ρ·n²·D⁴ by a bracketed root finder
 /// (TOMS 748, core/roots.hpp); then Q = CP·ρ·n²·D⁵/(2π), I_m = Q·Kv + I0(ω),

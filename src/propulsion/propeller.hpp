@@ -1,6 +1,6 @@
 #pragma once
 /// A fixed-pitch propeller described by its thrust and power coefficients over advance ratio
-/// (DESIGN.md "Physics — Propulsion"), in the revolutions-per-second convention:
+/// (docs/physics.md "Propulsion"), in the revolutions-per-second convention:
 ///   J = V / (n·D),  T = CT(J)·ρ·n²·D⁴,  P_shaft = CP(J)·ρ·n³·D⁵,  Q = P_shaft / (2π·n)
 /// with n in rev/s, D in m, V the axial inflow speed in m/s (W. F. Durand's coefficients, as in
 /// J. G. Leishman, Principles of Helicopter Aerodynamics, 2nd ed., 2006, and every propeller
@@ -14,7 +14,7 @@ struct Prop {
   double diameter_m = 0.254;  ///< tip-to-tip diameter, m
   Table ct{0.1};              ///< thrust coefficient over advance ratio J (a number: static)
   Table cp{0.04};             ///< power coefficient over advance ratio J (a number: static)
-  double mass_kg = 0.0;       ///< informational (DESIGN.md "mass")
+  double mass_kg = 0.0;       ///< informational (docs/physics.md "Mass")
 
   /// Disc area π·D²/4, m².
   double disc_area_m2() const;

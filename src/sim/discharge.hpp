@@ -80,7 +80,7 @@ struct DischargeResult {
 
 /// The most a pack can deliver at its terminals at EMF E and series resistance R0: V·I with
 /// V = E − R0·I is largest at I = E/(2·R0), where it is E²/(4·R0) (the maximum power transfer
-/// theorem; common practice, and DESIGN.md "Physics": E² < 4·R0·P is power collapse).
+/// theorem; common practice, and docs/physics.md: E² < 4·R0·P is power collapse).
 double max_power_W(double emf_V, double r0_ohm);
 
 DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec);

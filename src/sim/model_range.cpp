@@ -143,7 +143,7 @@ void RangeWatch::step(const Sample& a0, const Sample& mid, const Sample& b0, con
         if (out_a) b.e.duration_s += z - a;
         continue;
       }
-      // The crossing, bracketed on the dense output (STYLE.md rule 8).
+      // The crossing, bracketed on the dense output (docs/style.md rule 8).
       auto gt = [&](double t) { return margin(b, at(t)); };
       const double tc = find_root(gt, a, z, g[k], g[k + 1], kTimeTolS).value_or(out_z ? a : z);
       if (out_z) {

@@ -1,7 +1,7 @@
 #pragma once
 /// Integrate the pack under one smooth demand (one load segment or one mission phase) with
 /// an exponential Runge–Kutta stepper (or Boost.Odeint's Dormand–Prince) and dense output, locating events by
-/// bracketing on the dense output (STYLE.md rule 8).
+/// bracketing on the dense output (docs/style.md rule 8).
 #include <cstddef>
 #include <functional>
 #include <limits>

@@ -17,7 +17,7 @@ TEST_CASE("a cold 4S2P pack under a current step: every resistance times r_facto
   // Battery Management Systems, Vol. I, 2015, ch. 2, the Thevenin model):
   //   v_k(t) = I·R_k·(1 − e^(−t/τ_k)),   V(t) = S·OCV − I·R0 − v_1 − v_2
   // and, the current removed at t1, v_k(t) = v_k(t1)·e^(−(t − t1)/τ_k).
-  // Pack level (DESIGN.md "Physics"): R_k,pack = S/P·R_k,cell·r_factor(T), R0 likewise (plus the
+  // Pack level (docs/physics.md): R_k,pack = S/P·R_k,cell·r_factor(T), R0 likewise (plus the
   // wiring), τ_k unchanged by S, P and temperature. At −10 °C the cell's table gives 3.2
   // (an invented table, the shape of the demo cells'). Flat OCV: the SoC does not enter.
   const double ocv = 3.7, R0 = 0.004, R1 = 0.0012, tau1 = 6.0, R2 = 0.0018, tau2 = 90.0;

@@ -1,5 +1,5 @@
 // Lumped thermal model of the cells (battery::Thermal): closed forms and an energy balance.
-//   m·c·dT/dt = I²·R0 + Σ v_k²/R_k − hA·(T − T_air)   (DESIGN.md "Physics")
+//   m·c·dT/dt = I²·R0 + Σ v_k²/R_k − hA·(T − T_air)   (docs/physics.md)
 #include <doctest/doctest.h>
 
 #include <cmath>

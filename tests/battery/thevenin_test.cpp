@@ -51,7 +51,7 @@ TEST_CASE("two RC pairs superpose") {
 }
 
 TEST_CASE("constant-power terminal solve satisfies V·I = P and picks the stable root") {
-  // R0·I² − E·I + P = 0 (DESIGN.md); the smaller root keeps V above E/2.
+  // R0·I² − E·I + P = 0 (docs/physics.md); the smaller root keeps V above E/2.
   const double E = 16.0, R0 = 0.05, P = 400.0;
   const auto t = battery::solve_terminal(E, R0, E, battery::Demand::power(P), 0.0);
   CHECK_FALSE(t.collapsed);

@@ -227,7 +227,7 @@ TEST_CASE("fit cell: a log with a temperature column gives a model with a therma
   const std::string pack =
       write_work_file("thermal-pack.json", json({{"cell", "thermal-cell.json"}, {"series", 6}, {"temperature_C", 10}}).dump());
   const auto fly = run_sortie({"fly", source_path("profiles/demo-quad-water-tank.json"), "--pack", pack, "--json", "-"});
-  // Exit 0 for a go (DESIGN.md "Commands"): a 6S1P of the fitted 5 Ah demo cell at 10 °C flies
+  // Exit 0 for a go (docs/architecture.md "Commands"): a 6S1P of the fitted 5 Ah demo cell at 10 °C flies
   // the quadcopter demo with its reserve, as the demo's own 6S1P pack of that cell does.
   REQUIRE_MESSAGE(fly.exit_code == 0, fly.err);
   const json jf = json::parse(fly.out);

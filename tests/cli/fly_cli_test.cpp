@@ -39,7 +39,7 @@ TEST_CASE("fly: every demo profile runs and writes its JSON result") {
     const json j = json::parse(read_file(out));
     CHECK(r.out.find("reserve rules") != std::string::npos);
     CHECK(j["schema"] == "sortie.fly/1");
-    // Exit 0 for a go, 3 for a no-go (DESIGN.md "Commands"): the go is every rule passing.
+    // Exit 0 for a go, 3 for a no-go (docs/architecture.md "Commands"): the go is every rule passing.
     bool all_pass = true;
     for (const auto& rule : j["rules"]) all_pass = all_pass && rule["pass"].get<bool>();
     CHECK(r.exit_code == (all_pass ? 0 : 3));

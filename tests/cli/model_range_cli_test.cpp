@@ -67,7 +67,7 @@ TEST_CASE("coverage block: every field is optional and an empty block loads") {
 
 TEST_CASE("discharge: the excursion below the covered SoC in JSON and --stop-at-coverage ends there") {
   // 4S demo cell at 25 A from full: the charge counts down at 25 A against 5 Ah × capacity factor
-  // at 20 °C; the SoC leaves 0.3 at t = 3600·Q·0.7/25 (Coulomb counting, DESIGN.md).
+  // at 20 °C; the SoC leaves 0.3 at t = 3600·Q·0.7/25 (Coulomb counting, docs/physics.md).
   const std::string pack = write_pack("cov30", {{"soc_min", 0.3}, {"current_max_A", 20.0}, {"source", "test"}});
   const auto r = run_sortie({"discharge", pack, "--current", "25", "--json", "-"});
   REQUIRE(r.exit_code == 0);

@@ -44,7 +44,7 @@ TEST_SUITE("fit") {
 TEST_CASE("demo bench: every row of the bundled bench file follows the invented drive's closed form within its noise") {
   // The invented drive (models/drives/demo-quad-15in.json, constant I0) on a static stand at
   // 16 V, ρ = 1.225 kg/m³, duty = throttle/100. At J = 0 (M. Drela, "First-Order DC Electric
-  // Motor Model", MIT, 2007, for the motor; DESIGN.md "Propulsion" for the prop and ESC):
+  // Motor Model", MIT, 2007, for the motor; docs/physics.md "Propulsion" for the prop and ESC):
   //   Q = c·ω², c = CP·ρ·D⁵/(2π)³;  I_m = I0 + Kv·Q;  ω = (V_m − I_m·Rm)·Kv, V_m = d·V_bus
   //   ⇒ Kv²·Rm·c·ω² + ω − Kv·(V_m − Rm·I0) = 0 (its positive root);
   //   T = CT·ρ·n²·D⁴;  P_bus = V_m·I_m + P_idle + R_on·I_m² + k_sw·V_bus·I_m.

@@ -168,7 +168,7 @@ TEST_CASE("level flight: the induced-velocity ratio read from the textbook's fig
 }
 
 TEST_CASE("forward flight: T = sqrt(W^2 + D^2) with tilt atan(D/W) and Glauert's equation holding") {
-  // DESIGN.md "Flight": the rotors balance weight and drag D = ½ρV²·CdA; Glauert's inflow
+  // docs/physics.md "Flight": the rotors balance weight and drag D = ½ρV²·CdA; Glauert's inflow
   // v_i = T/(2ρA·√((V cos α)² + (V sin α + v_i)²)) (Leishman 2006, ch. 2).
   const Multirotor m = quad();
   const double W = kMass * kStandardGravity;

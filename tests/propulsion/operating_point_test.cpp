@@ -21,7 +21,7 @@ const char* const kDemoDrives[] = {"models/drives/demo-quad-15in.json", "models/
 Drive load(const std::string& rel) { return io::load_drive_file(test::source_path(rel)); }
 
 // Losses written out here from the model equations, independently of the solver's own sums:
-// motor I²·Rm + I0(ω)·ω/Kv (Drela 2007), ESC P_idle + R_on·I² + k_sw·V_bus·I (DESIGN.md).
+// motor I²·Rm + I0(ω)·ω/Kv (Drela 2007), ESC P_idle + R_on·I² + k_sw·V_bus·I (docs/physics.md).
 double losses_W(const Drive& d, const OperatingPoint& op) {
   const auto& m = op.motor;
   const double kv = d.motor.kv_rpm_per_V * 2.0 * 3.14159265358979323846 / 60.0;
@@ -67,7 +67,7 @@ TEST_CASE("operating point: bus power = shaft power + motor loss + ESC loss (pro
 
 TEST_CASE("operating point: bus power is exactly a + b·V_bus for a motor point") {
   // P_bus = V_m·I_m + P_idle + R_on·I_m² + k_sw·V_bus·I_m is linear in V_bus with the motor point
-  // fixed (DESIGN.md "Physics — Propulsion"); bus_load gives a and b.
+  // fixed (docs/physics.md "Propulsion"); bus_load gives a and b.
   const Drive d = load("models/drives/demo-hex-10in.json");
   const MotorPoint m = solve_motor(d, 4.0, 3.0, 1.2);
   const BusLoad load = bus_load(d, m);

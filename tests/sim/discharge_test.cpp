@@ -45,7 +45,7 @@ TEST_CASE("Coulomb counting: flat OCV — constant current — time to the SoC f
 }
 
 TEST_CASE("constant power — R0 only — linear OCV: time to cutoff matches the closed form") {
-  // Derivation. OCV = v0 + k·s, E = OCV (no RC), I = (E − √(E² − 4R0P))/(2R0) (DESIGN.md).
+  // Derivation. OCV = v0 + k·s, E = OCV (no RC), I = (E − √(E² − 4R0P))/(2R0) (docs/physics.md).
   // dt = −C·ds/I with C = 3600·Q and ds = dE/k. Rationalising,
   //   1/I = 2R0/(E − √(E² − 4R0P)) = (E + √(E² − 4R0P))/(2P),
   // so t = C/(2P·k) · [F(E0) − F(E_end)], F the primitive of E + √(E² − c), c = 4·R0·P.

@@ -175,7 +175,7 @@ TEST_CASE("motor and ESC current limits decide the verdict") {
 
 TEST_CASE("maximum take-off mass: all-up = empty + payload + pack against mtom_kg") {
   sim::Mission m = quad(sagging_cell());
-  const double all_up = 1.5 + 0.3 + 6 * 0.11;  // DESIGN.md "mass"
+  const double all_up = 1.5 + 0.3 + 6 * 0.11;  // docs/physics.md "Mass"
   std::get<flight::Multirotor>(m.airframe).mtom_kg = all_up - 0.01;
   auto r = sim::simulate(m);
   CHECK(rule(r, "mtom_kg").actual == doctest::Approx(all_up).epsilon(1e-12));

@@ -217,7 +217,7 @@ TEST_CASE("energy: the pack's energy out is the sum over the phases — and SoC 
 }
 
 TEST_CASE("a heavier pack needs more thrust") {
-  // All-up mass = empty + payload + pack (DESIGN.md): hover thrust per rotor = m·g/(N·(1 − f)),
+  // All-up mass = empty + payload + pack (docs/physics.md): hover thrust per rotor = m·g/(N·(1 − f)),
   // f the airframe's download fraction.
   sim::Mission m = quad_mission();
   const auto light = sim::simulate(m);

@@ -56,7 +56,7 @@ constexpr double kTimeTol = 1e-3;
 TEST_SUITE("sim") {
 
 TEST_CASE("SoC below the covered floor: when and how long follow from Coulomb counting") {
-  // dSoC/dt = −I/(3600·Q) (DESIGN.md): from SoC 1 at I the SoC reaches s at t = 3600·Q·(1 − s)/I.
+  // dSoC/dt = −I/(3600·Q) (docs/physics.md): from SoC 1 at I the SoC reaches s at t = 3600·Q·(1 − s)/I.
   // Left at soc_min = 0.3, ended at the floor 0.05: outside for 3600·Q·(0.3 − 0.05)/I.
   const double Q = 5.0, I = 10.0, soc_min = 0.3, floor = 0.05;
   battery::Cell c = linear_cell(Q);
@@ -159,7 +159,7 @@ TEST_CASE("cell current above the covered maximum twice: two stretches with thei
 }
 
 TEST_CASE("cell temperature above the covered range: the lumped thermal model's closed form") {
-  // m·c·dT/dt = I²·R0 − hA·(T − T_air) with T(0) = T_air (DESIGN.md "Physics"):
+  // m·c·dT/dt = I²·R0 − hA·(T − T_air) with T(0) = T_air (docs/physics.md):
   //   T(t) = T_air + ΔT·(1 − e^(−t/τ)),  ΔT = I²·R0/hA,  τ = m·c/hA.
   // Here ΔT = 10²·0.01/0.1 = 10 K, τ = 0.1·1000/0.1 = 1000 s; T reaches 25 °C at
   // t_c = −τ·ln(1 − 5/10) and stays above it to the end at 3600·Q·0.95/I.

@@ -4,7 +4,7 @@
 // The set-up makes the bus power a known constant: a static propeller (constant CT, CP) on a
 // loss-free motor and ESC (Rm = I0 = 0, R_on = P_idle = k_sw = 0), hovering in still air, so
 // the pack sees P = N·CP·ρ·n³·D⁵ + avionics with n from T = CT·ρ·n²·D⁴ = m·g/N (the n-D
-// propeller coefficients; DESIGN.md "Propulsion"). The pack has a linear OCV(SoC) = v0 + k·SoC,
+// propeller coefficients; docs/physics.md "Propulsion"). The pack has a linear OCV(SoC) = v0 + k·SoC,
 // a series resistance R0 and no RC pair, so the terminal current at pack EMF E = S·OCV is
 //   I = (E − √(E² − 4·R0·P)) / (2·R0),   1/I = (E + √(E² − 4·R0·P)) / (2·P)
 // (the stable root of R0·I² − E·I + P = 0; G. Plett, Battery Management Systems, Vol. I, 2015,
@@ -212,7 +212,7 @@ TEST_CASE("spare time: each rule binding alone gives the closed-form time of its
 
 TEST_CASE("saturation ends the hover where the ESC's highest duty times the sagging bus voltage meets the motor voltage") {
   // With R0 = 0 the bus is the pack EMF, E = S·(v0 + k·SoC); saturation comes when
-  // d_max·E = V_m (DESIGN.md "Propulsion"), at SoC_sat = (V_m/(d_max·S) − v0)/k, reached after
+  // d_max·E = V_m (docs/physics.md "Propulsion"), at SoC_sat = (V_m/(d_max·S) − v0)/k, reached after
   // the closed-form time above (c = 0). A 134 rpm/V motor puts V_m near 22 V on 6S, so the
   // highest duty 0.98 makes saturation come at SoC ≈ 0.57 (with the frame's 3 % download) instead
   // of ≈ 0.48 at full duty.

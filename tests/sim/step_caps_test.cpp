@@ -1,5 +1,5 @@
 // Every integration loop and whole-mission solve has a cap on its work with a specific
-// one-line LimitError (STYLE.md rule 9): each test here hits one cap.
+// one-line LimitError (docs/style.md rule 9): each test here hits one cap.
 #include <doctest/doctest.h>
 
 #include <string>
