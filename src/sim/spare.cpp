@@ -147,6 +147,98 @@ void solve_leg_cut(const Mission& m, std::size_t spare, SpareResult& out, Run& r
 
 }  // namespace
 
+namespace {
+
+using Margins = std::vector<std::pair<double, std::string>>;
+
+/// One spare-time search: its whole-mission simulations, counted against the cap, and every
+/// evaluation kept (the binding rule is read from the nearest failing one).
+struct SpareSearch {
+  const Mission& m;
+  const SpareOptions& opts;
+  SpareResult& out;
+  std::size_t i = 0;  ///< the spare phase
+  SimOptions so;
+  std::vector<std::tuple<double, double, std::string>> seen;
+  std::vector<std::pair<double, Margins>> all;  ///< every rule's margin
+
+  MissionResult run_mission(const Mission& mm, const std::string& what) {
+    if (out.simulations >= opts.max_simulations)
+      throw LimitError("spare-time solve stopped after " + std::to_string(opts.max_simulations) +
+                       " whole-mission simulations without locating " + what);
+    ++out.simulations;
+    return simulate(mm, so);
+  }
+  MissionResult run(double delta) {
+    return run_mission(lengthened(m, i, delta), "the spare time of phase " + std::to_string(i + 1) + " (last tried " +
+                                                    format_number(delta) + " s)");
+  }
+  /// The smallest margin with `delta` added to the spare phase.
+  double f(double delta) {
+    const MissionResult r = run(delta);
+    auto [v, name] = smallest_margin(m, r);
+    seen.emplace_back(delta, v, name);
+    all.emplace_back(delta, rule_margins(m, r));
+    return v;
+  }
+  Margins margins_at(double x) const {
+    for (const auto& [d, v] : all)
+      if (d == x) return v;
+    return Margins{};
+  }
+};
+
+/// The bracket of a mission that holds as planned: added time grown until a rule fails; false
+/// when every rule still holds at max_spare_s (stated as a bound: the search stops).
+bool bracket_above(SpareSearch& s, double f0, double base_len, double& lo, double& hi, double& flo, double& fhi) {
+  const SpareOptions& opts = s.opts;
+  lo = 0.0;
+  flo = f0;
+  hi = std::min(std::max(60.0, 0.25 * base_len), opts.max_spare_s);
+  fhi = s.f(hi);
+  while (fhi >= 0.0) {
+    if (hi >= opts.max_spare_s) {
+      s.out.spare_s = hi;
+      s.out.capped = true;
+      s.out.note = "every rule still holds with " + format_fixed(hi, 0) + " s added; the search stops there";
+      return false;
+    }
+    // Next try: past the root the last two points predict (margins fall nearly linearly with
+    // the added time), at least 1 s further and at most eight times as far.
+    const double slope = (fhi - flo) / (hi - lo);
+    double next = 2.0 * hi;
+    if (slope < 0.0) next = std::clamp(hi - fhi / slope + 0.02 * (hi - lo) + 1.0, hi + 1.0, 8.0 * hi);
+    const double pr = predicted_root(s.margins_at(lo), s.margins_at(hi), lo, hi);
+    if (std::isfinite(pr) && pr > hi) next = std::clamp(pr + 0.02 * (hi - lo) + 1.0, hi + 1.0, 8.0 * hi);
+    lo = hi;
+    flo = fhi;
+    hi = std::min(next, opts.max_spare_s);
+    fhi = s.f(hi);
+  }
+  return true;
+}
+
+/// The bracket of a mission that fails as planned: down to the spare phase removed; false when
+/// it fails even then (not bounded: the leg cut is tried instead).
+bool bracket_below(SpareSearch& s, double f0, double base_len, double& lo, double& hi, double& flo, double& fhi) {
+  hi = 0.0;
+  fhi = f0;
+  lo = -base_len;
+  const MissionResult without = s.run(lo);
+  const auto [m_without, rule_without] = smallest_margin(s.m, without);
+  s.all.emplace_back(lo, rule_margins(s.m, without));
+  flo = m_without;
+  if (flo >= 0.0) return true;
+  s.out.spare_s = -base_len;
+  s.out.bounded = false;
+  s.out.binding_rule = rule_without;
+  auto run_mission = [&](const Mission& mm, const std::string& what) { return s.run_mission(mm, what); };
+  solve_leg_cut(s.m, s.i, s.out, run_mission);
+  return false;
+}
+
+}  // namespace
+
 SpareResult solve_spare(const Mission& m_in, const MissionResult& base, const SpareOptions& opts) {
   // Keyword airspeeds solved once, not in every simulation of the search.
   const Mission m = with_resolved_airspeeds(m_in);
@@ -163,88 +255,25 @@ SpareResult solve_spare(const Mission& m_in, const MissionResult& base, const Sp
     out.bounded = false;
     return out;
   }
-  const std::size_t i = *out.phase;
-  const double base_len = planned_duration_s(m, i).value_or(0.0);
-  SimOptions so = opts.sim;
-  so.sample_s = 0.0;
-  auto run_mission = [&](const Mission& mm, const std::string& what) {
-    if (out.simulations >= opts.max_simulations)
-      throw LimitError("spare-time solve stopped after " + std::to_string(opts.max_simulations) +
-                       " whole-mission simulations without locating " + what);
-    ++out.simulations;
-    return simulate(mm, so);
-  };
-  auto run = [&](double delta) {
-    return run_mission(lengthened(m, i, delta), "the spare time of phase " + std::to_string(i + 1) + " (last tried " +
-                                                    format_number(delta) + " s)");
-  };
-  // Each evaluation is kept: the binding rule is read from the nearest failing one.
-  std::vector<std::tuple<double, double, std::string>> seen;
-  std::vector<std::pair<double, std::vector<std::pair<double, std::string>>>> all;  // every rule's margin
-  auto f = [&](double delta) {
-    const MissionResult r = run(delta);
-    auto [v, name] = smallest_margin(m, r);
-    seen.emplace_back(delta, v, name);
-    all.emplace_back(delta, rule_margins(m, r));
-    return v;
-  };
-  all.emplace_back(0.0, rule_margins(m, base));
-  auto margins_at = [&](double x) {
-    for (const auto& [d, v] : all)
-      if (d == x) return v;
-    return std::vector<std::pair<double, std::string>>{};
-  };
+  SpareSearch s{m, opts, out};
+  s.i = *out.phase;
+  s.so = opts.sim;
+  s.so.sample_s = 0.0;
+  const double base_len = planned_duration_s(m, s.i).value_or(0.0);
+  s.all.emplace_back(0.0, rule_margins(m, base));
   const double f0 = smallest_margin(m, base).first;
   double lo, hi, flo, fhi;
-  if (f0 >= 0.0) {
-    lo = 0.0;
-    flo = f0;
-    hi = std::min(std::max(60.0, 0.25 * base_len), opts.max_spare_s);
-    fhi = f(hi);
-    while (fhi >= 0.0) {
-      if (hi >= opts.max_spare_s) {
-        // Stated as a bound: every rule still holds with this much added, and the search stops.
-        out.spare_s = hi;
-        out.capped = true;
-        out.note = "every rule still holds with " + format_fixed(hi, 0) + " s added; the search stops there";
-        return out;
-      }
-      // Next try: past the root the last two points predict (margins fall nearly linearly with
-      // the added time), at least 1 s further and at most eight times as far.
-      const double slope = (fhi - flo) / (hi - lo);
-      double next = 2.0 * hi;
-      if (slope < 0.0) next = std::clamp(hi - fhi / slope + 0.02 * (hi - lo) + 1.0, hi + 1.0, 8.0 * hi);
-      const double pr = predicted_root(margins_at(lo), margins_at(hi), lo, hi);
-      if (std::isfinite(pr) && pr > hi) next = std::clamp(pr + 0.02 * (hi - lo) + 1.0, hi + 1.0, 8.0 * hi);
-      lo = hi;
-      flo = fhi;
-      hi = std::min(next, opts.max_spare_s);
-      fhi = f(hi);
-    }
-  } else {
-    hi = 0.0;
-    fhi = f0;
-    lo = -base_len;
-    const MissionResult without = run(lo);
-    const auto [m_without, rule_without] = smallest_margin(m, without);
-    all.emplace_back(lo, rule_margins(m, without));
-    flo = m_without;
-    if (flo < 0.0) {
-      out.spare_s = -base_len;
-      out.bounded = false;
-      out.binding_rule = rule_without;
-      solve_leg_cut(m, i, out, run_mission);
-      return out;
-    }
-  }
-  narrow_bracket(f, lo, hi, flo, fhi, predicted_root(margins_at(lo), margins_at(hi), lo, hi));
+  if (!(f0 >= 0.0 ? bracket_above(s, f0, base_len, lo, hi, flo, fhi) : bracket_below(s, f0, base_len, lo, hi, flo, fhi)))
+    return out;
+  auto f = [&](double delta) { return s.f(delta); };
+  narrow_bracket(f, lo, hi, flo, fhi, predicted_root(s.margins_at(lo), s.margins_at(hi), lo, hi));
   const double root = find_root(f, lo, hi, flo, fhi, 0.05, 100).value_or(lo);
   // Report the side of the bracket where every rule still holds.
   out.spare_s = root;
   // The rule failing just past the root: from an evaluation within 1 s past it, else one more.
-  for (const auto& [d, v, name] : seen)
+  for (const auto& [d, v, name] : s.seen)
     if (v < 0.0 && d > root && d - root <= 1.0 && out.binding_rule.empty()) out.binding_rule = name;
-  if (out.binding_rule.empty()) out.binding_rule = smallest_margin(m, run(root + 0.05)).second;
+  if (out.binding_rule.empty()) out.binding_rule = smallest_margin(m, s.run(root + 0.05)).second;
   return out;
 }
 
