@@ -87,21 +87,21 @@ mutant all_up_without_payload src/flight/airframe.cpp \
   'f.mass_empty_kg + f.payload_kg + pack_mass_kg' 'f.mass_empty_kg + pack_mass_kg'
 
 # --- sim: mission, rules, spare ----------------------------------------------------------------
-mutant rule_met_exactly_fails src/sim/mission.cpp \
+mutant rule_met_exactly_fails src/sim/mission_rules.cpp \
   'r.pass = act >= req;' 'r.pass = act > req;'
-mutant limit_met_exactly_fails src/sim/mission.cpp \
+mutant limit_met_exactly_fails src/sim/mission_rules.cpp \
   'r.pass = act <= lim;' 'r.pass = act < lim;'
-mutant reserve_floor_min src/sim/mission.cpp \
-  'std::max(cutoff, m.reserve.v_load_cell_min_V.value_or(0.0))' 'std::min(cutoff, m.reserve.v_load_cell_min_V.value_or(0.0))'
-mutant cutoff_on_ocv src/sim/mission.cpp \
+mutant reserve_floor_min src/sim/mission_rules.cpp \
+  'std::max(f.cutoff, m.reserve.v_load_cell_min_V.value_or(0.0))' 'std::min(f.cutoff, m.reserve.v_load_cell_min_V.value_or(0.0))'
+mutant cutoff_on_ocv src/sim/mission_phase.cpp \
   'return x.term.v_terminal_V / S - cutoff_cell_V; }' 'return x.term.v_ocv_V / S - cutoff_cell_V; }'
-mutant saturation_without_duty_max src/sim/mission.cpp \
+mutant saturation_without_duty_max src/sim/mission_phase.cpp \
   'return vm > 0 ? d_max * x.term.v_terminal_V - vm : 1.0;' 'return vm > 0 ? x.term.v_terminal_V - vm : 1.0;'
-mutant demand_without_avionics src/sim/mission.cpp \
+mutant demand_without_avionics src/sim/mission_phase.cpp \
   'battery::Demand::power(N * bl.a_W + m.avionics_W, N * bl.b_W_per_V)' 'battery::Demand::power(N * bl.a_W, N * bl.b_W_per_V)'
 mutant stored_energy_without_half src/sim/mission.cpp \
   'integral += 0.5 * (prev_v + v) * (x - prev_x);' 'integral += (prev_v + v) * (x - prev_x);'
-mutant spare_margin_sign src/sim/mission.cpp \
+mutant spare_margin_sign src/sim/spare.cpp \
   'consider(rule.margin / scale, rule.name);' 'consider(-rule.margin / scale, rule.name);'
 
 # --- io: parsers -------------------------------------------------------------------------------
