@@ -6,9 +6,10 @@ set(SORTIE_WARNINGS -Wall -Wextra -Wpedantic
     # Model structs give every member a default; an aggregate initialiser that names the first
     # few and leaves the rest to their defaults is meant (-Wextra would flag it).
     -Wno-missing-field-initializers
-    # gcc 12's -Wrestrict, -Wstringop-overflow, -Wstringop-overread and -Warray-bounds misfire inside libstdc++'s
-    # std::string concatenation at -O2 (a memcpy of "9223372036854775809 or more bytes" that
-    # cannot happen, GCC bug 105329); off for gcc before 13 only, so that real warnings stand out.
+    # gcc 12's -Wrestrict, -Wstringop-overflow, -Wstringop-overread and -Warray-bounds misfire
+    # inside libstdc++'s std::string concatenation at -O2 (a memcpy of "9223372036854775809 or
+    # more bytes" that cannot happen, GCC bug 105329); off for gcc before 13 only, so that real
+    # warnings stand out.
     $<$<AND:$<CXX_COMPILER_ID:GNU>,$<VERSION_LESS:$<CXX_COMPILER_VERSION>,13>>:-Wno-restrict
       -Wno-stringop-overflow -Wno-stringop-overread -Wno-array-bounds>)
 if(SORTIE_WERROR)
