@@ -14,12 +14,6 @@ namespace sortie::estimate {
 
 namespace {
 
-battery::Pack unit_soh(battery::Pack p) {
-  p.soh_capacity = 1.0;
-  p.soh_resistance = 1.0;
-  return p;
-}
-
 /// The model of health.hpp on one flight (estimate/pack_step), with the pack tables built once.
 void model_voltage(const battery::PackModel& m, const sim::MeasuredFlight& f, double c, double r,
                    double soc0, std::vector<double>& v) {

@@ -16,8 +16,15 @@ struct StepState {
   double soc = 1.0, v1 = 0.0, v2 = 0.0, temp_C = 25.0;
 };
 
+/// The pack with its soh factors set to 1: the model a PackStep is built on.
+inline battery::Pack unit_soh(battery::Pack p) {
+  p.soh_capacity = 1.0;
+  p.soh_resistance = 1.0;
+  return p;
+}
+
 struct PackStep {
-  /// `model` built with soh factors 1 (the factors below replace them).
+  /// `model` built with soh factors 1 (unit_soh; the factors below replace them).
   const battery::PackModel& model;
   double c = 1.0;  ///< capacity factor
   double r = 1.0;  ///< R0 factor

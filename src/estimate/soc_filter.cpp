@@ -10,16 +10,6 @@
 
 namespace sortie::estimate {
 
-namespace {
-
-battery::Pack unit_soh(battery::Pack p) {
-  p.soh_capacity = 1.0;
-  p.soh_resistance = 1.0;
-  return p;
-}
-
-}  // namespace
-
 FilterResult run_soc_filter(const battery::Pack& pack, const sim::MeasuredFlight& log, std::size_t rows,
                             const FilterOptions& o) {
   FilterResult out;
