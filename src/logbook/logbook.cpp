@@ -1,4 +1,5 @@
 #include "logbook/logbook.hpp"
+#include <cstdio>
 
 #include <sqlite3.h>
 
@@ -187,23 +188,46 @@ std::string hex32(std::int64_t v) {
   return o.str();
 }
 
-/// What the file's first 100 bytes say, read without SQLite (so nothing can write to it).
-/// Refuses a file that is not SQLite or is shorter than its header's page count.
-void check_header(const std::string& path, std::uintmax_t size) {
-  std::array<unsigned char, 100> h{};
+/// The file's first 100 bytes, read without SQLite (so nothing can write to it); `size` is the
+/// file's length at the same moment.
+struct Header {
+  std::array<unsigned char, 100> bytes{};
+  std::size_t got = 0;
+  std::uintmax_t size = 0;
+};
+
+Header read_header(const std::string& path) {
+  Header h;
+  std::error_code ec;
+  h.size = fs::file_size(path, ec);
+  if (ec) fail(path, "cannot read the logbook (" + ec.message() + ")");
   std::ifstream in(path, std::ios::binary);
   if (!in) fail(path, "cannot read the logbook");
-  in.read(reinterpret_cast<char*>(h.data()), h.size());
-  const auto got = static_cast<std::size_t>(in.gcount());
+  in.read(reinterpret_cast<char*>(h.bytes.data()), h.bytes.size());
+  h.got = static_cast<std::size_t>(in.gcount());
+  return h;
+}
+
+/// Refuses a file that is not SQLite at all. The magic string never changes once written, so
+/// this needs no lock.
+void check_magic(const std::string& path) {
+  const Header h = read_header(path);
   static const char magic[] = "SQLite format 3";  // and its terminating NUL: 16 bytes
-  if (got < 16 || std::memcmp(h.data(), magic, 16) != 0)
-    fail(path, "not an SQLite database (got a file of " + std::to_string(size) +
+  if (h.got < 16 || std::memcmp(h.bytes.data(), magic, 16) != 0)
+    fail(path, "not an SQLite database (got a file of " + std::to_string(h.size) +
                    " bytes without the SQLite header, expected a sortie logbook)");
-  if (got < 100)
-    fail(path, "truncated SQLite database (got " + std::to_string(size) + " bytes, expected at least the 100-byte header)");
+}
+
+/// Why the file is shorter than its header's page count, or empty when it is not. The page
+/// count and the length agree only while no writer is committing: call this with a shared lock
+/// held (inside a read transaction), or a concurrent commit reads as a truncated file.
+std::string truncation(const std::string& path) {
+  const Header h = read_header(path);
+  if (h.got < 100)
+    return "truncated SQLite database (got " + std::to_string(h.size) + " bytes, expected at least the 100-byte header)";
   auto be = [&](int at, int n) {
     std::uint64_t v = 0;
-    for (int i = 0; i < n; ++i) v = (v << 8) | h[at + i];
+    for (int i = 0; i < n; ++i) v = (v << 8) | h.bytes[at + i];
     return v;
   };
   std::uint64_t page = be(16, 2);
@@ -211,9 +235,10 @@ void check_header(const std::string& path, std::uintmax_t size) {
   const std::uint64_t pages = be(28, 4);
   // The in-header page count is valid when the change counter equals version-valid-for
   // (SQLite file format, "1.3.7 In-header database size").
-  if (be(24, 4) == be(92, 4) && pages > 0 && size < page * pages)
-    fail(path, "truncated SQLite database (got " + std::to_string(size) + " bytes, expected " +
-                   std::to_string(page * pages) + " from its header)");
+  if (be(24, 4) == be(92, 4) && pages > 0 && h.size < page * pages)
+    return "truncated SQLite database (got " + std::to_string(h.size) + " bytes, expected " +
+           std::to_string(page * pages) + " from its header)";
+  return {};
 }
 
 /// Schema checks on a read-only connection: the mark, the version, the integrity.
@@ -223,9 +248,18 @@ int check_existing(const std::string& path, bool& fresh) {
   sqlite3_busy_timeout(c.get(), 10000);
   std::int64_t app = 0, version = 0, objects = 0;
   try {
+    // One read transaction: from its first read until COMMIT the shared lock keeps any writer
+    // from changing the file, so its length, its header and quick_check all see one state.
+    exec(c.get(), path, "BEGIN");
+    try {
+      objects = pragma_int(c.get(), path, "SELECT count(*) FROM sqlite_master");
+    } catch (const InputError&) {
+      if (const std::string why = truncation(path); !why.empty()) fail(path, why);
+      throw;
+    }
+    if (const std::string why = truncation(path); !why.empty()) fail(path, why);
     app = pragma_int(c.get(), path, "PRAGMA application_id");
     version = pragma_int(c.get(), path, "PRAGMA user_version");
-    objects = pragma_int(c.get(), path, "SELECT count(*) FROM sqlite_master");
     Statement q(c.get(), path, "PRAGMA quick_check(1)");
     if (!q.step() || q.text(0) != "ok") {
       // SQLite's report spans lines ("*** in database main ***\nPage 7: ..."): one line here.
@@ -234,9 +268,10 @@ int check_existing(const std::string& path, bool& fresh) {
       if (why.size() > 160) why = why.substr(0, 160) + "...";
       fail(path, "corrupt SQLite database (quick_check: " + why + ")");
     }
+    exec(c.get(), path, "COMMIT");
   } catch (const InputError& e) {
     const std::string what = e.what();
-    if (what.find("corrupt") != std::string::npos && what.find("quick_check") != std::string::npos) throw;
+    if (what.find("quick_check") != std::string::npos || what.find("truncated") != std::string::npos) throw;
     fail(path, "corrupt or unreadable SQLite database (" + what.substr(path.size() + 2) + ")");
   }
   fresh = app == 0 && version == 0 && objects == 0;
@@ -287,7 +322,7 @@ Database::Database(const std::string& path, bool writable, int busy_timeout_ms) 
     fail(path, "no logbook here (expected a file made by `sortie logbook FILE add-pack`)");
   int version = 0;
   if (exists && size > 0) {
-    check_header(path, size);
+    check_magic(path);
     bool fresh = false;
     version = check_existing(path, fresh);
   }

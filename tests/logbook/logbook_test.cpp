@@ -1,5 +1,6 @@
 #include <doctest/doctest.h>
 #include <sqlite3.h>
+#include <fcntl.h>
 #include <sys/wait.h>
 #include <unistd.h>
 
@@ -292,4 +293,66 @@ TEST_CASE("logbook: two processes writing at once leave every row and no error")
   CHECK(sql_int(path, "SELECT count(*) FROM estimates") == 2 * kEach / 10);
   // Each estimate's cycle is the flight count under the write lock: all distinct.
   CHECK(sql_int(path, "SELECT count(DISTINCT cycle) FROM estimates") == 2 * kEach / 10);
+}
+
+TEST_CASE("logbook: a file mid-commit under another process's lock is waited for, not called truncated") {
+  // While a writer commits, the header may already name pages not yet on disk. The child stands
+  // for that writer: it takes SQLite's exclusive lock, makes the header name 8 more pages than
+  // the file holds, waits, puts the header back and lets go. An opener that compares the length
+  // with the header without the shared lock refuses a good file; one that reads under the lock
+  // waits (busy timeout) and opens it.
+  const std::string path = test::work_path("lb-mid-commit.sqlite");
+  {
+    Database db(path, true);
+    db.add_pack(demo_pack());
+  }
+  const std::string before = bytes_of(path);
+  REQUIRE(before.size() >= 100);
+  int ready[2];
+  REQUIRE(pipe(ready) == 0);
+  const pid_t child = fork();
+  REQUIRE(child >= 0);
+  if (child == 0) {
+    close(ready[0]);
+    sqlite3* db = nullptr;
+    int rc = sqlite3_open_v2(path.c_str(), &db, SQLITE_OPEN_READWRITE, nullptr);
+    rc |= sqlite3_exec(db, "BEGIN EXCLUSIVE", nullptr, nullptr, nullptr);
+    std::string grown = before.substr(0, 100);
+    std::uint32_t pages = 0;
+    for (int k = 0; k < 4; ++k) pages = (pages << 8) | static_cast<unsigned char>(grown[28 + k]);
+    pages += 8;
+    for (int k = 3; k >= 0; --k, pages >>= 8) grown[28 + k] = static_cast<char>(pages & 0xff);
+    // Written through a descriptor kept open until the lock is let go:
+    // closing any descriptor of the file drops this process's POSIX locks, SQLite's included.
+    const int fd = open(path.c_str(), O_RDWR);
+    auto put_header = [&](const std::string& h) { rc |= pwrite(fd, h.data(), h.size(), 0) == 100 ? 0 : 1; };
+    put_header(grown);
+    (void)!write(ready[1], "x", 1);
+    close(ready[1]);
+    usleep(300000);
+    put_header(before.substr(0, 100));
+    rc |= sqlite3_exec(db, "ROLLBACK", nullptr, nullptr, nullptr);
+    sqlite3_close(db);
+    close(fd);
+    _exit(rc == SQLITE_OK ? 0 : 1);
+  }
+  close(ready[1]);
+  char byte = 0;
+  REQUIRE(read(ready[0], &byte, 1) == 1);
+  close(ready[0]);
+  std::string refusal;
+  int packs = 0;
+  try {
+    Database db(path, false);
+    packs = static_cast<int>(db.packs().size());
+  } catch (const std::exception& e) {
+    refusal = e.what();
+  }
+  int status = 0;
+  REQUIRE(waitpid(child, &status, 0) == child);
+  CHECK(WIFEXITED(status));
+  CHECK(WEXITSTATUS(status) == 0);
+  CHECK(refusal == "");
+  CHECK(packs == 1);
+  CHECK(bytes_of(path) == before);
 }
