@@ -1,5 +1,4 @@
 #include "logbook/logbook.hpp"
-#include <cstdio>
 
 #include <sqlite3.h>
 
