@@ -17,9 +17,10 @@ trap 'rm -rf "$work"' EXIT
 db="$work/ageing.sqlite"
 run() {
   # Show the command as a reader would type it (sortie on the PATH, the logbook by its name).
-  local shown="${*//$db/ageing.sqlite}"
-  echo "\$ sortie ${shown}"
-  "$build/sortie" "$@"
+  local shown
+  shown=$(printf ' %q' "$@")
+  echo "\$ sortie${shown//$work\//}"
+  "$build/sortie" "$@" | sed "s|$work/||g"
 }
 run logbook "$db" add-pack models/packs/demo-6s1p-lipo-5000.json --name "ageing demo pack" --serial A1 --first-use 2026-01-02
 for log in examples/pack-ageing/flight-*.csv; do
