@@ -48,7 +48,7 @@ TEST_CASE("health: the demo log gives its pack's capacity 0.85 back - with the s
   CHECK(t.out.find("Caution") != std::string::npos);
 }
 
-TEST_CASE("health: the first 100 s of the demo log is refused as too shallow - exit 4, no estimate") {
+TEST_CASE("health: the first 100 s of the demo log is refused as too shallow - exit 4 (no estimate)") {
   const std::string path = write_work_file("health-shallow.csv", head_of_log(100));
   const auto r = run_sortie({"health", path, "--profile", source_path(kProfile), "--format", "json"});
   CHECK(r.exit_code == 4);

@@ -74,7 +74,7 @@ void refused_cell_count(const CliResult& r, const std::string& file) {
 
 TEST_SUITE("cli") {
 
-TEST_CASE("cell count: a 4S log against the 6S pack is refused by check, health, remaining and logbook add-flight") {
+TEST_CASE("cell count: a 4S log against the 6S pack is refused by check and health and remaining and logbook add-flight") {
   const std::string log = write_work_file("four-cell.csv", four_cell_log());
   const std::string html = work_path("four-cell.html");
   refused_cell_count(run_sortie({"check", log, "--profile", source_path(kProfile), "--html", html}), "four-cell.csv");
@@ -96,7 +96,7 @@ TEST_CASE("cell count: a 4S log against the 6S pack is refused by check, health,
   CHECK_MESSAGE(ok.exit_code == 0, ok.err);
 }
 
-TEST_CASE("health: logs refused give exit 4 (no estimate), not fly's no-go 3, and the report says why") {
+TEST_CASE("health: logs refused give exit 4 (no estimate) and not fly's no-go 3 - the report says why") {
   const std::string path = write_work_file("health-shallow-exit.csv", head_of_log(100));
   const auto r = run_sortie({"health", path, "--profile", source_path(kProfile)});
   CHECK(r.exit_code == 4);
@@ -106,7 +106,7 @@ TEST_CASE("health: logs refused give exit 4 (no estimate), not fly's no-go 3, an
   CHECK(ok.exit_code == 0);
 }
 
-TEST_CASE("health: two logs of an ageing pack give the joint estimate and each log's own, each near its truth") {
+TEST_CASE("health: two logs of an ageing pack give the joint estimate and each log's own - each near its truth") {
   // flight-1 was made at capacity 1.00, R0 factor 1.00; flight-6 at 0.80, 1.40.
   const auto r = run_sortie({"health", source_path("examples/pack-ageing/flight-1.csv"),
                              source_path("examples/pack-ageing/flight-6.csv"), "--profile", source_path(kProfile),
@@ -133,7 +133,7 @@ TEST_CASE("health: two logs of an ageing pack give the joint estimate and each l
   CHECK(t.out.find("Each log alone") != std::string::npos);
 }
 
-TEST_CASE("health: with a shallow log beside a good one, the shallow one's own estimate is refused with its reason") {
+TEST_CASE("health: with a shallow log beside a good one the shallow one's own estimate is refused with its reason") {
   const std::string shallow = write_work_file("health-shallow-own.csv", head_of_log(100));
   const auto r = run_sortie({"health", source_path(kLog), shallow, "--profile", source_path(kProfile), "--format", "json"});
   CAPTURE(r.err);
@@ -148,7 +148,7 @@ TEST_CASE("health: with a shallow log beside a good one, the shallow one's own e
   CHECK(!json::parse(one.out)["flights"][0].contains("own"));
 }
 
-TEST_CASE("health --html: the page plots each used log's voltage against the fitted model, its numbers the JSON's") {
+TEST_CASE("health --html: the page plots each used log's voltage against the fitted model - its numbers the JSON's") {
   const std::string page = work_path("health.html"), js = work_path("health.json");
   const std::string shallow = write_work_file("health-html-shallow.csv", head_of_log(100));
   const auto r = run_sortie({"health", source_path("examples/pack-ageing/flight-1.csv"),
@@ -173,7 +173,7 @@ TEST_CASE("health --html: the page plots each used log's voltage against the fit
   CHECK(text.find("burn") != std::string::npos);
 }
 
-TEST_CASE("remaining --html: the filtered SoC with its sd band, the voltage and the time left to each rule") {
+TEST_CASE("remaining --html: the filtered SoC with its sd band and the voltage and the time left to each rule") {
   const std::string page = work_path("remaining.html"), js = work_path("remaining.json");
   const auto r = run_sortie({"remaining", source_path(kLog), "--profile", source_path(kProfile), "--at-s", "370",
                              "--soh-capacity", "0.85", "--html", page, "--json", js, "-q"});

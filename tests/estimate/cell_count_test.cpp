@@ -45,7 +45,7 @@ TEST_CASE("cell count: the 6S demo log fits the 6S pack it was flown on") {
   CHECK(c.rest_cell_max_V < 4.3);
 }
 
-TEST_CASE("cell count: a 4S log (the 6S demo log scaled by 4/6) against the 6S pack is refused naming file, value and expected") {
+TEST_CASE("cell count: a 4S log (the 6S demo log scaled by 4/6) against the 6S pack is refused naming file and value and expected") {
   sim::MeasuredFlight f = demo_log();
   for (double& v : f.voltage_V) v *= 4.0 / 6.0;  // the same cells at the same state, four in series
   const auto pack = pack_of("demo-6s1p-lipo-5000.json");
