@@ -313,7 +313,7 @@ void run_fit_cell(const std::string& text) {
 /// The command line: the input is words, one per line, after one of a few command prefixes
 /// chosen by its first byte (each naming a bundled model). cli::run parses and runs it in a
 /// scratch folder, with '/' in words turned into '_' so that no output can land outside it.
-/// Any exit code but 0..3, a temporary left open, or a file left in the scratch folder under
+/// Any exit code but 0..4, a temporary left open, or a file left in the scratch folder under
 /// the writer's temporary name is a bug.
 void run_cli_options(const std::string& text) {
   namespace fs = std::filesystem;
@@ -369,7 +369,7 @@ void run_cli_options(const std::string& text) {
   ::dup2(saved, 1);
   ::close(saved);
   ::close(null_fd);
-  if (code < 0 || code > 3) throw std::logic_error("cli: exit code " + std::to_string(code));
+  if (code < 0 || code > 4) throw std::logic_error("cli: exit code " + std::to_string(code));
   if (io::open_temporaries() != 0) throw std::logic_error("cli: a temporary was left registered");
   for (const auto& e : fs::directory_iterator(scratch))
     if (e.path().filename().string().rfind(".sortie-", 0) == 0)

@@ -8,11 +8,13 @@
 #include "cli/run.hpp"
 #include "core/error.hpp"
 #include "core/text.hpp"
+#include "estimate/cell_count.hpp"
 #include "estimate/health.hpp"
 #include "io/battery_json.hpp"
 #include "io/flight_log_csv.hpp"
 #include "io/output.hpp"
 #include "io/profile_json.hpp"
+#include "report/health_report.hpp"
 #include "report/text_table.hpp"
 
 namespace sortie::cli {
@@ -22,6 +24,9 @@ namespace {
 const char* kHealthCaution =
     "Caution: lithium packs can burn. This is an estimate from a model fitted to logs; it does not "
     "certify a pack. Retire packs by the manufacturer's limits and local aviation rules.";
+const char* kPerLogNote =
+    "with several logs the estimate above is the joint one (the factors shared by all the logs); each log is also "
+    "fitted alone, its own capacity and resistance factors and start SoC, where that log alone can tell them apart";
 const char* kHealthMethod =
     "pack model replayed on each log's current (RC pairs relaxed at the first row, the cell's thermal "
     "block if it has one), capacity and R0 factors and each log's start SoC fitted to the logged voltage "
@@ -47,7 +52,25 @@ battery::Pack load_health_pack(const HealthCliOptions& o) {
   return io::load_pack_file(o.pack);
 }
 
-nlohmann::json health_json(const HealthCliOptions& o, const battery::Pack& pack, const estimate::HealthEstimate& e) {
+/// Why a log alone gives no estimate: its screening reason, else the fit's.
+std::string own_refusal(const estimate::HealthEstimate& x) {
+  if (!x.flights.empty() && !x.flights.front().refused.empty()) return x.flights.front().refused;
+  return x.why_refused;
+}
+
+/// Each log's own estimate, as the JSON's flights[i].own: the factors with their sd, or why the log
+/// alone gives none.
+nlohmann::json own_json(const estimate::HealthEstimate& x) {
+  nlohmann::json j = {{"refused", x.refused}};
+  if (x.refused) j["why_refused"] = own_refusal(x);
+  if (!x.refused)
+    j.update({{"capacity", x.capacity}, {"capacity_sd", x.capacity_sd}, {"resistance", x.resistance},
+              {"resistance_sd", x.resistance_sd}, {"correlation", x.correlation}, {"rmse_V", x.rmse_V}});
+  return j;
+}
+
+nlohmann::json health_json(const HealthCliOptions& o, const battery::Pack& pack, const estimate::HealthEstimate& e,
+                           const std::vector<estimate::HealthEstimate>& own) {
   nlohmann::json j;
   j["pack"] = o.pack.empty() ? o.profile : o.pack;
   j["pack_layout"] = pack.layout();
@@ -64,8 +87,10 @@ nlohmann::json health_json(const HealthCliOptions& o, const battery::Pack& pack,
                      {"min_rows", e.options.min_rows}, {"max_correlation", e.options.max_correlation},
                      {"capacity_bounds", {e.options.capacity_lo, e.options.capacity_hi}},
                      {"resistance_bounds", {e.options.resistance_lo, e.options.resistance_hi}}};
+  if (!own.empty()) j["per_log_note"] = kPerLogNote;
   nlohmann::json fl = nlohmann::json::array();
-  for (const auto& f : e.flights) {
+  for (std::size_t i = 0; i < e.flights.size(); ++i) {
+    const auto& f = e.flights[i];
     nlohmann::json x = {{"log", f.name}, {"rows", f.rows}, {"charge_Ah", f.charge_Ah}, {"depth", f.depth},
                         {"current_spread", f.current_spread}, {"used", f.refused.empty()}};
     if (!f.refused.empty()) x["refused"] = f.refused;
@@ -79,6 +104,9 @@ nlohmann::json health_json(const HealthCliOptions& o, const battery::Pack& pack,
       x["residual_lag1"] = f.lag1;
       x["n_eff"] = f.n_eff;
     }
+    if (i < own.size()) {
+      x["own"] = own_json(own[i]);
+    }
     fl.push_back(x);
   }
   j["flights"] = fl;
@@ -87,7 +115,8 @@ nlohmann::json health_json(const HealthCliOptions& o, const battery::Pack& pack,
   return j;
 }
 
-std::string health_text(const HealthCliOptions& o, const battery::Pack& pack, const estimate::HealthEstimate& e) {
+std::string health_text(const HealthCliOptions& o, const battery::Pack& pack, const estimate::HealthEstimate& e,
+                        const std::vector<estimate::HealthEstimate>& own) {
   using report::fixed;
   std::string out = "State of health: " + (o.pack.empty() ? o.profile : o.pack) + " (" + pack.layout() + ")\n\n";
   if (e.refused) out += "No estimate: " + e.why_refused + "\n\n";
@@ -119,6 +148,19 @@ std::string health_text(const HealthCliOptions& o, const battery::Pack& pack, co
   }
   t.wrap_last(60);
   out += "\nLogs\n" + t.render();
+  if (!own.empty()) {
+    report::TextTable a({"log", "capacity factor", "resistance factor", "correlation", "RMSE V"});
+    for (std::size_t i = 0; i < own.size() && i < e.flights.size(); ++i) {
+      const auto& x = own[i];
+      if (x.refused)
+        a.add_row({e.flights[i].name, "no estimate: " + own_refusal(x), "", "", ""});
+      else
+        a.add_row({e.flights[i].name, fixed(x.capacity, 3) + " ± " + fixed(x.capacity_sd, 3),
+                   fixed(x.resistance, 3) + " ± " + fixed(x.resistance_sd, 3), fixed(x.correlation, 3), fixed(x.rmse_V, 4)});
+    }
+    out += "\nEach log alone (1 sd)\n" + a.render();
+    out += "Note: " + std::string(kPerLogNote) + ".\n";
+  }
   out += "\nThresholds: a log must use at least " + fixed(100 * e.options.min_depth, 0) +
          " % of the rated charge and vary its current by sd/mean of at least " + fixed(100 * e.options.min_current_spread, 0) +
          " %; the estimate is refused when |correlation| exceeds " + fixed(e.options.max_correlation, 2) + ".\n";
@@ -136,6 +178,7 @@ int run_health(const HealthCliOptions& o) {
   for (const auto& path : o.logs) {
     const io::FlightLog fl = io::read_flight_log_file(path, cols);
     estimate::HealthFlight hf{path, sim::MeasuredFlight{fl.time_s, fl.voltage_V, fl.current_A, fl.lines}, std::nullopt, ""};
+    estimate::require_cell_count(pack, hf.log, path);
     if (o.rested_start) {
       // A rested start: the first row's voltage is the OCV (its current must be near zero).
       const double c_rate = std::abs(fl.current_A[0]) / (pack.cell.capacity_Ah * pack.parallel);
@@ -149,11 +192,20 @@ int run_health(const HealthCliOptions& o) {
     flights.push_back(std::move(hf));
   }
   const estimate::HealthEstimate e = estimate::estimate_health(pack, flights);
-  const std::string json = health_json(o, pack, e).dump(2) + "\n";
+  // With several logs, each one alone too: its own factors where it can tell them apart.
+  std::vector<estimate::HealthEstimate> own;
+  if (flights.size() > 1)
+    for (const auto& f : flights) own.push_back(estimate::estimate_health(pack, {f}));
+  const nlohmann::json j = health_json(o, pack, e, own);
+  const std::string json = j.dump(2) + "\n";
+  const std::string page = o.report.html_file.empty()
+                               ? ""
+                               : report::health_html(o.pack.empty() ? o.profile : o.pack, pack, flights, e, own, j);
   if (!o.json_file.empty()) io::write_output(o.json_file, json);
+  if (!o.report.html_file.empty()) io::write_output(o.report.html_file, page);
   if (print && o.report.format == "json") io::write_output("-", json);
-  if (print && o.report.format == "text") io::write_output("-", printable(health_text(o, pack, e), true));
-  return e.refused ? kExitNoGo : kExitOk;
+  if (print && o.report.format == "text") io::write_output("-", printable(health_text(o, pack, e, own), true));
+  return e.refused ? kExitNoEstimate : kExitOk;
 }
 
 }  // namespace

@@ -1,7 +1,8 @@
 #pragma once
 /// What `check` and `logbook add-flight` share: a flight log read with the command's
 /// `--columns`, and checked against the plan of a loaded profile (the plan simulated with a 1 s
-/// trace, a refused plan an input error).
+/// trace, a refused plan an input error; a log whose voltage does not fit the pack's cell count
+/// an input error, estimate/cell_count.hpp).
 #include <string>
 
 #include "io/profile_json.hpp"

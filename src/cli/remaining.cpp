@@ -8,10 +8,12 @@
 #include "cli/run.hpp"
 #include "core/error.hpp"
 #include "core/text.hpp"
+#include "estimate/cell_count.hpp"
 #include "estimate/soc_filter.hpp"
 #include "io/flight_log_csv.hpp"
 #include "io/output.hpp"
 #include "io/profile_json.hpp"
+#include "report/remaining_report.hpp"
 #include "report/text_table.hpp"
 
 namespace sortie::cli {
@@ -50,6 +52,7 @@ int run_remaining(const RemainingCliOptions& o) {
     throw InputError(o.log + ": --at-s " + report::fixed(o.at_s, 1) + " s is outside the log (expected " +
                      report::fixed(fl.time_s.front(), 1) + " to " + report::fixed(fl.time_s.back(), 1) + " s)");
   const sim::MeasuredFlight mf{fl.time_s, fl.voltage_V, fl.current_A, fl.lines};
+  estimate::require_cell_count(pack, mf, o.log);
   estimate::FilterOptions fo;
   fo.current_sd_A = o.current_sd;
   fo.voltage_sd_V = o.voltage_sd;
@@ -121,7 +124,9 @@ int run_remaining(const RemainingCliOptions& o) {
   text += "\nThe log goes on " + fixed(log_left_s, 0) + " s after the cut; the filter over the whole log ends at SoC " +
           fixed(100 * whole.state.soc, 1) + " % ± " + fixed(100 * whole.rows.back().soc_sd, 2) + ".\n";
   text += "Method: " + std::string(kRemainingMethod) + ".\n" + kRemainingCaution + "\n";
+  const std::string page = o.report.html_file.empty() ? "" : report::remaining_html(o.log, o.profile, mf, r, whole, j);
   if (!o.json_file.empty()) io::write_output(o.json_file, json);
+  if (!o.report.html_file.empty()) io::write_output(o.report.html_file, page);
   if (print && o.report.format == "json") io::write_output("-", json);
   if (print && o.report.format == "text") io::write_output("-", printable(text, true));
   return kExitOk;

@@ -76,7 +76,7 @@ std::string crossing_text(const std::string& what, const FactorTrend& t) {
          fx(f.intercept, 4) + " ± " + fx(f.intercept_sd, 4) + "; residual sd " + fx(f.residual_sd, 4) + ")\n";
   const std::string lim = fx(t.limit, 3);
   if (t.cycle_at_limit.reached)
-    out += "    reaches " + lim + " at cycle " + fx(t.cycle_at_limit.x, 0) + " ± " + fx(t.cycle_at_limit.x_sd, 0) +
+    out += "    reaches " + lim + " at cycle " + fx(t.cycle_at_limit.x, 1) + " ± " + fx(t.cycle_at_limit.x_sd, 1) +
            " (extrapolated)\n";
   else
     out += "    does not reach " + lim + " on this trend: " + t.cycle_at_limit.why_not + "\n";

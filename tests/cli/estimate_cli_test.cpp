@@ -48,10 +48,10 @@ TEST_CASE("health: the demo log gives its pack's capacity 0.85 back - with the s
   CHECK(t.out.find("Caution") != std::string::npos);
 }
 
-TEST_CASE("health: the first 100 s of the demo log is refused as too shallow - exit 3") {
+TEST_CASE("health: the first 100 s of the demo log is refused as too shallow - exit 4 (no estimate)") {
   const std::string path = write_work_file("health-shallow.csv", head_of_log(100));
   const auto r = run_sortie({"health", path, "--profile", source_path(kProfile), "--format", "json"});
-  CHECK(r.exit_code == 3);
+  CHECK(r.exit_code == 4);
   const auto j = nlohmann::json::parse(r.out);
   CHECK(j["refused"] == true);
   CHECK(j["flights"][0]["refused"].get<std::string>().find("too shallow") != std::string::npos);

@@ -295,7 +295,7 @@ TEST_CASE("logbook: two processes writing at once leave every row and no error")
   CHECK(sql_int(path, "SELECT count(DISTINCT cycle) FROM estimates") == 2 * kEach / 10);
 }
 
-TEST_CASE("logbook: a file mid-commit under another process's lock is waited for, not called truncated") {
+TEST_CASE("logbook: a file mid-commit under another process's lock is waited for and not called truncated") {
   // While a writer commits, the header may already name pages not yet on disk. The child stands
   // for that writer: it takes SQLite's exclusive lock, makes the header name 8 more pages than
   // the file holds, waits, puts the header back and lets go. An opener that compares the length
