@@ -108,8 +108,8 @@ DischargeResult discharge(const battery::Pack& pack, const DischargeSpec& spec) 
     out.i_max_A = std::max(out.i_max_A, s.term.current_A);
     out.temperature_max_C = std::max(out.temperature_max_C, s.x[battery::kTemp]);
   };
-  const StepHook hook = [&](double ta, double tb, const std::function<Sample(double)>& at) {
-    const Sample a = at(ta), mid = at(0.5 * (ta + tb)), b = at(tb);
+  const StepHook hook = [&](const Sample& a, const Sample& b, const std::function<Sample(double)>& at) {
+    const Sample mid = at(0.5 * (a.t + b.t));
     track(a);
     track(mid);
     track(b);

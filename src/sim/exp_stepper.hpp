@@ -57,7 +57,7 @@ class ExpStepper {
     double cap = max_dt_ > 0 ? max_dt_ : std::numeric_limits<double>::infinity();
     while (true) {
       double h = std::min(dt_, cap);
-      const double err = attempt(rhs, h);
+      const double err = attempt(rhs, h, full_, half_);
       // A state that overflowed is handed back as it is: the caller retries from the step's
       // start or names the non-finite state.
       bool finite_state = true;
@@ -70,16 +70,16 @@ class ExpStepper {
         have_f1_ = true;
         for (std::size_t i = 0; i < 6; ++i) {
           if (l_[i] == 0.0) continue;
-          const Phi p = phis(h * l_[i]);
+          const Phi& p = full_[i];  // φ at h·L, as the step used them
           const double n0 = f0_[i] - l_[i] * x0_[i], n1 = f1_[i] - l_[i] * x1_[i];
           miss_[i] = x1_[i] - (p.e * x0_[i] + h * p.p1 * n0 + h * p.p2 * (n1 - n0));
         }
         // Grow at most fivefold; the local error is O(h^4) in the estimate.
-        const double grow = !finite_state ? 1.0 : err > 0 ? 0.9 * std::pow(err, -0.25) : 5.0;
+        const double grow = !finite_state ? 1.0 : err > 0 ? 0.9 / std::sqrt(std::sqrt(err)) : 5.0;
         dt_ = h * std::clamp(grow, 1.0, 5.0);
         return {t0_, t1_};
       }
-      const double shrink = std::isfinite(err) ? std::max(0.2, 0.9 * std::pow(err, -1.0 / 3.0)) : 0.1;
+      const double shrink = std::isfinite(err) ? std::max(0.2, 0.9 / std::cbrt(err)) : 0.1;
       dt_ = h * shrink;
       if (!(t0_ + dt_ > t0_)) {  // cannot advance: hand back a zero step for the caller's message
         t1_ = t0_;
@@ -102,17 +102,29 @@ class ExpStepper {
       return;
     }
     const State keep_xn = xn_, keep_fn = fn_, keep_w3 = w3_;
-    attempt(rhs, t - t0_);
+    std::array<Phi, 6> full, half;  // the step's own φ stay for its dense output
+    attempt(rhs, t - t0_, full, half);
     out = xn_;
     xn_ = keep_xn;
     fn_ = keep_fn;
     w3_ = keep_w3;
   }
 
-  /// The state at t inside the last step [t0, t1].
+  /// The state at t inside the last step [t0, t1]: the step's ends exactly, inside it the
+  /// dense output below.
   void calc_state(double t, State& out) const {
+    if (t == t0_) {
+      out = x0_;
+      return;
+    }
+    if (t == t1_) {
+      out = x1_;
+      return;
+    }
     const double h = h_;
-    const double th = h > 0 ? (t - t0_) / h : 0.0;
+    // The middle of the step (each step's watch looks there) reuses the step's own φ at h·L/2.
+    const bool middle = h > 0 && std::fabs(t - (t0_ + 0.5 * h)) <= 1e-12 * h;
+    const double th = middle ? 0.5 : h > 0 ? (t - t0_) / h : 0.0;
     for (std::size_t i = 0; i < out.size(); ++i) {
       if (l_[i] == 0.0) {
         // Cubic Hermite.
@@ -123,11 +135,10 @@ class ExpStepper {
       } else {
         const double z1 = h * l_[i];
         const double n0 = f0_[i] - l_[i] * x0_[i], n1 = f1_[i] - l_[i] * x1_[i];
-        auto lin = [&](double s) {  // exact for N linear in time, at fraction s of the step
-          const Phi p = phis(s * z1);
-          return p.e * x0_[i] + s * h * p.p1 * n0 + s * h * s * p.p2 * (n1 - n0);
-        };
-        out[i] = lin(th) + th * th * (3 - 2 * th) * miss_[i];
+        // Exact for N linear in time, at fraction th of the step.
+        const Phi p = middle ? half_[i] : phis(th * z1);
+        const double lin = p.e * x0_[i] + th * h * p.p1 * n0 + th * h * th * p.p2 * (n1 - n0);
+        out[i] = lin + th * th * (3 - 2 * th) * miss_[i];
       }
     }
   }
@@ -136,11 +147,10 @@ class ExpStepper {
   struct Phi {
     double e, p1, p2, p3;
   };
-  /// e^z, φ1, φ2, φ3 at z ≤ 0: Taylor series near 0 (the recurrence cancels there), else the
-  /// recurrence.
-  static Phi phis(double z) {
+  /// φ1, φ2, φ3 at z from e^z − 1: the recurrence, or a Taylor series near 0 where the
+  /// recurrence cancels. φ_0 = e^z = 1 + (e^z − 1).
+  static Phi phis_from(double z, double em1) {
     Phi p;
-    p.e = std::exp(z);
     if (std::fabs(z) < 0.1) {
       // φ_k(z) = Σ_j z^j/(j+k)!; nine terms leave under 1e-17 at |z| < 0.1.
       double s1 = 0, s2 = 0, s3 = 0, zj = 1.0;
@@ -157,19 +167,30 @@ class ExpStepper {
       p.p1 = s1;
       p.p2 = s2;
       p.p3 = s3;
+      p.e = 1.0 + z * s1;  // e^z = 1 + z·φ1(z)
     } else {
-      p.p1 = std::expm1(z) / z;
+      p.e = 1.0 + em1;
+      p.p1 = em1 / z;
       p.p2 = (p.p1 - 1.0) / z;
       p.p3 = (p.p2 - 0.5) / z;
     }
     return p;
   }
+  /// e^z, φ1, φ2, φ3 at z ≤ 0.
+  static Phi phis(double z) { return phis_from(z, std::fabs(z) < 0.1 ? 0.0 : std::expm1(z)); }
+  /// The same at z/2 and at z from one exponential: e^z − 1 = (e^{z/2} − 1)·(e^{z/2} + 1),
+  /// free of cancellation for z ≤ 0 (the second factor lies in (1, 2]).
+  static void phis_half_full(double z, Phi& half, Phi& full) {
+    const double zh = 0.5 * z;
+    half = phis(zh);
+    const double em1h = std::fabs(zh) < 0.1 ? zh * half.p1 : half.e - 1.0;
+    full = phis_from(z, em1h * (em1h + 2.0));
+  }
 
-  double attempt(const battery::Thevenin& rhs, double h) {
-    std::array<Phi, 6> full, half;
+  double attempt(const battery::Thevenin& rhs, double h, std::array<Phi, 6>& full, std::array<Phi, 6>& half) {
     for (std::size_t i = 0; i < 6; ++i) {
-      full[i] = l_[i] == 0.0 ? Phi{1.0, 1.0, 0.5, 1.0 / 6.0} : phis(h * l_[i]);
-      half[i] = l_[i] == 0.0 ? Phi{1.0, 1.0, 0.5, 1.0 / 6.0} : phis(0.5 * h * l_[i]);
+      if (l_[i] == 0.0) full[i] = half[i] = Phi{1.0, 1.0, 0.5, 1.0 / 6.0};
+      else phis_half_full(h * l_[i], half[i], full[i]);
     }
     State nx, na, nb, nc, a, b, c, fa, fb, fc;
     for (std::size_t i = 0; i < 6; ++i) {
@@ -211,6 +232,7 @@ class ExpStepper {
   double t0_ = 0, t1_ = 0, dt_ = 1, h_ = 0;
   State x0_{}, x1_{}, f0_{}, f1_{}, xn_{}, fn_{}, w3_{}, miss_{};
   std::array<double, 6> l_{};
+  std::array<Phi, 6> full_{}, half_{};  ///< φ at h·L and h·L/2 of the last accepted step
   bool have_f1_ = false;
 };
 

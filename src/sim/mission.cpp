@@ -190,16 +190,12 @@ void landing_state(Flight& f) {
 
 }  // namespace
 
-MissionResult simulate(const Mission& m, const SimOptions& opts) {
-  for (const Phase& p : m.phases)
-    if (p.airspeed_choice != Phase::Speed::given) return simulate(with_resolved_airspeeds(m), opts);
-  MissionResult out;
-  const battery::Pack pack = pack_in_field_air(m);
-  const battery::PackModel pm(pack);
-  RangeWatch watch(pack);
-  Flight f(m, opts, pm, watch, out);
-  start_flight(f);
-  for (std::size_t i = 0; i < m.phases.size() && !f.stopped; ++i) fly_phase(f, i);
+namespace {
+
+/// From the last phase flown to the result: the unflown phases, the trace's end, the
+/// excursions, the totals, the landing, the reserve time and the rules.
+void finish_flight(Flight& f) {
+  MissionResult& out = f.out;
   keep_unflown_phases(f);
   end_trace(f);
   note_excursions(f);
@@ -214,7 +210,50 @@ MissionResult simulate(const Mission& m, const SimOptions& opts) {
   reserve_rules(f);
   flight_limits(f);
   out.go = std::all_of(out.rules.begin(), out.rules.end(), [](const RuleCheck& r) { return r.pass; });
+}
+
+bool speeds_given(const Mission& m) {
+  return std::all_of(m.phases.begin(), m.phases.end(),
+                     [](const Phase& p) { return p.airspeed_choice == Phase::Speed::given; });
+}
+
+}  // namespace
+
+namespace steps {
+
+MissionResult simulate_keeping(const Mission& m, const SimOptions& opts, std::size_t phase,
+                               std::optional<FlightAt>& keep) {
+  if (!speeds_given(m)) return simulate_keeping(with_resolved_airspeeds(m), opts, phase, keep);
+  MissionResult out;
+  const battery::Pack pack = pack_in_field_air(m);
+  const battery::PackModel pm(pack);
+  RangeWatch watch(pack);
+  Flight f(m, opts, pm, watch, out);
+  start_flight(f);
+  for (std::size_t i = 0; i < m.phases.size() && !f.stopped; ++i) {
+    if (i == phase) keep = FlightAt{phase, pm, watch, out, f};
+    fly_phase(f, i);
+  }
+  finish_flight(f);
   return out;
+}
+
+MissionResult simulate_from(const Mission& m, const SimOptions& opts, const FlightAt& from) {
+  if (!speeds_given(m)) return simulate_from(with_resolved_airspeeds(m), opts, from);
+  MissionResult out = from.out;
+  RangeWatch watch = from.watch;
+  Flight f(m, opts, from.pm, watch, out);
+  static_cast<FlightState&>(f) = from.state;
+  for (std::size_t i = from.phase; i < m.phases.size() && !f.stopped; ++i) fly_phase(f, i);
+  finish_flight(f);
+  return out;
+}
+
+}  // namespace steps
+
+MissionResult simulate(const Mission& m, const SimOptions& opts) {
+  std::optional<FlightAt> none;
+  return simulate_keeping(m, opts, m.phases.size(), none);
 }
 
 }  // namespace sortie::sim

@@ -230,8 +230,9 @@ SegmentResult run_stretch(Flight& f, PhaseRun& r, const SegmentSetup& s, const s
                           const SegmentOptions& so) {
   const double vm = s.v_motor_V;
   const bool hover = f.multirotor && r.p->kind == Phase::Kind::hover;
-  const StepHook hook = [&](double ta, double tb, const std::function<Sample(double)>& at) {
-    const Sample a = at(ta), mid = at(0.5 * (ta + tb)), b = at(tb);
+  const StepHook hook = [&](const Sample& a, const Sample& b, const std::function<Sample(double)>& at) {
+    const double ta = a.t, tb = b.t;
+    const Sample mid = at(0.5 * (ta + tb));
     track(f, r, vm, hover, a);
     track(f, r, vm, hover, mid);
     track(f, r, vm, hover, b);

@@ -91,16 +91,8 @@ struct Spells {
   }
 };
 
-/// Everything one simulation carries from phase to phase.
-struct Flight {
-  Flight(const Mission& mission, const SimOptions& options, const battery::PackModel& model, RangeWatch& w,
-         MissionResult& result)
-      : m(mission), opts(options), pm(model), watch(w), out(result) {}
-  const Mission& m;
-  const SimOptions& opts;
-  const battery::PackModel& pm;
-  RangeWatch& watch;
-  MissionResult& out;
+/// The values one simulation carries from phase to phase (Flight adds what it refers to).
+struct FlightState {
   std::vector<double> heights;  ///< start_heights(m.phases)
   double S = 0.0, rated_Ah = 0.0, cutoff = 0.0;
   double stop_floor = -1.0;  ///< the covered SoC floor when the flight stops there, else −1
@@ -120,6 +112,36 @@ struct Flight {
   Spells spell;
   std::optional<double> v_takeoff_V;  ///< loaded bus voltage at take-off
 };
+
+/// Everything one simulation carries from phase to phase.
+struct Flight : FlightState {
+  Flight(const Mission& mission, const SimOptions& options, const battery::PackModel& model, RangeWatch& w,
+         MissionResult& result)
+      : m(mission), opts(options), pm(model), watch(w), out(result) {}
+  const Mission& m;
+  const SimOptions& opts;
+  const battery::PackModel& pm;
+  RangeWatch& watch;
+  MissionResult& out;
+};
+
+/// A flight as it stood at the start of one phase: enough to fly the rest of a mission that
+/// differs from the one flown only in that phase or later ones (the spare-time solve lengthens
+/// one phase; everything before it flies the same in every try).
+struct FlightAt {
+  std::size_t phase = 0;
+  battery::PackModel pm;
+  RangeWatch watch;
+  MissionResult out;
+  FlightState state;
+};
+
+/// simulate, keeping the flight at the start of phase `phase` in `keep` when it gets there.
+MissionResult simulate_keeping(const Mission& m, const SimOptions& opts, std::size_t phase,
+                               std::optional<FlightAt>& keep);
+/// The rest of a flight from `from`: the same result as simulate(m, opts) when m and opts differ
+/// from the run that kept `from` only from its phase on (the caller's promise).
+MissionResult simulate_from(const Mission& m, const SimOptions& opts, const FlightAt& from);
 
 // mission_phase.cpp
 /// Fly phase `i` from the flight's state: its stretches, events and summary.

@@ -55,7 +55,8 @@ ReplayResult replay(const battery::Pack& pack, const CurrentLog& log,
     const battery::Demand demand = battery::Demand::current(log.current_A[k]);
     opts.t_end = log.time_s[last];
     std::size_t next = k;  // the next log row to evaluate inside this stretch
-    const StepHook hook = [&](double, double tb, const std::function<Sample(double)>& at) {
+    const StepHook hook = [&](const Sample&, const Sample& b, const std::function<Sample(double)>& at) {
+      const double tb = b.t;
       while (next < last && log.time_s[next] <= tb) {
         record(next, at(log.time_s[next]));
         ++next;

@@ -86,6 +86,23 @@ SegmentResult run_segment(const battery::PackModel& pack, const battery::Demand&
     stepper.initialize(x0, t0, std::min(1.0, span / 16.0));
 
     State tmp{};
+    // Made once: a lambda of this size converted to std::function at each step would allocate.
+    const std::function<Sample(double)> at = [&](double t) {
+      stepper.calc_state(t, tmp);
+      return make_sample(rhs, t, tmp);
+    };
+    // Events and a stretch's end: at the stepper's own accuracy where it offers it (the
+    // exponential stepper steps again from ta), else on the dense output.
+    auto at_exact = [&](double t) {
+      if constexpr (requires { stepper.exact_state(rhs, t, tmp); }) {
+        stepper.exact_state(rhs, t, tmp);
+        return make_sample(rhs, t, tmp);
+      } else {
+        return at(t);
+      }
+    };
+    std::vector<double> g_hi(events.size());
+    std::vector<Crossing> step_warnings;
     while (true) {
       if (opts.steps_done + res.steps >= opts.max_steps)
         throw LimitError(lead(opts) + ": integration stopped after " + std::to_string(opts.max_steps) +
@@ -98,20 +115,6 @@ SegmentResult run_segment(const battery::PackModel& pack, const battery::Demand&
         throw LimitError(lead(opts) + ": the integration cannot advance from t = " + format_number(ta) +
                          " s (a step of " + format_number(stepper.current_time_step()) +
                          " s is below the resolution of a time that large)");
-      auto at = [&](double t) {
-        stepper.calc_state(t, tmp);
-        return make_sample(rhs, t, tmp);
-      };
-      // Events and a stretch's end: at the stepper's own accuracy where it offers it (the
-      // exponential stepper steps again from ta), else on the dense output.
-      auto at_exact = [&](double t) {
-        if constexpr (requires { stepper.exact_state(rhs, t, tmp); }) {
-          stepper.exact_state(rhs, t, tmp);
-          return make_sample(rhs, t, tmp);
-        } else {
-          return at(t);
-        }
-      };
       const bool reaches_end = tb >= opts.t_end;
       const double t_hi = reaches_end ? opts.t_end : tb;
       const Sample hi = reaches_end ? at_exact(t_hi) : make_sample(rhs, tb, stepper.current_state());
@@ -129,8 +132,7 @@ SegmentResult run_segment(const battery::PackModel& pack, const battery::Demand&
 
       // Locate every crossing inside (ta, t_hi]; the earliest terminal one ends the segment.
       std::optional<Crossing> first_terminal;
-      std::vector<Crossing> step_warnings;
-      std::vector<double> g_hi(events.size());
+      step_warnings.clear();
       for (std::size_t k = 0; k < events.size(); ++k) {
         g_hi[k] = events[k].g(hi);
         if (!(g_prev[k] > 0.0 && g_hi[k] <= 0.0)) continue;
@@ -146,7 +148,7 @@ SegmentResult run_segment(const battery::PackModel& pack, const battery::Demand&
         }
       }
       const double t_stop = first_terminal ? first_terminal->at.t : t_hi;
-      if (hook) hook(ta, t_stop, at);
+      if (hook) hook(cur, first_terminal ? first_terminal->at : hi, at);
       emit_samples_until(t_stop, at, !first_terminal && !reaches_end);
       std::sort(step_warnings.begin(), step_warnings.end(),
                 [](const Crossing& a, const Crossing& b) { return a.at.t < b.at.t; });

@@ -68,9 +68,10 @@ struct SegmentOptions {
   std::string step_cap_hint;
 };
 
-/// Called once per accepted step with the step's ends and a way to evaluate the dense output
-/// anywhere inside it (for quadrature of means and extremes).
-using StepHook = std::function<void(double ta, double tb, const std::function<Sample(double)>& at)>;
+/// Called once per accepted step with the samples at the step's ends (already evaluated: the
+/// start is the previous step's end, the end is the step's state or its terminal event) and a
+/// way to evaluate the dense output anywhere inside it (for quadrature of means and extremes).
+using StepHook = std::function<void(const Sample& a, const Sample& b, const std::function<Sample(double)>& at)>;
 
 struct SegmentResult {
   Sample end;                          ///< last point: event, t_end

@@ -11,6 +11,7 @@
 #include "core/text.hpp"
 #include "sim/best_speeds.hpp"
 #include "sim/mission.hpp"
+#include "sim/mission_steps.hpp"
 
 namespace sortie::sim {
 
@@ -169,9 +170,19 @@ struct SpareSearch {
     ++out.simulations;
     return simulate(mm, so);
   }
+  /// The flight at the start of the spare phase, kept by the first try: every later try flies
+  /// only from there (the phases before it are the same in each), with the same result as a
+  /// whole simulation.
+  std::optional<steps::FlightAt> at_spare;
   MissionResult run(double delta) {
-    return run_mission(lengthened(m, i, delta), "the spare time of phase " + std::to_string(i + 1) + " (last tried " +
-                                                    format_number(delta) + " s)");
+    if (out.simulations >= opts.max_simulations)
+      throw LimitError("spare-time solve stopped after " + std::to_string(opts.max_simulations) +
+                       " whole-mission simulations without locating the spare time of phase " + std::to_string(i + 1) +
+                       " (last tried " + format_number(delta) + " s)");
+    ++out.simulations;
+    const Mission mm = lengthened(m, i, delta);
+    if (at_spare) return steps::simulate_from(mm, so, *at_spare);
+    return steps::simulate_keeping(mm, so, i, at_spare);
   }
   /// The smallest margin with `delta` added to the spare phase.
   double f(double delta) {
