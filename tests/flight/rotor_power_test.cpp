@@ -159,7 +159,7 @@ TEST_CASE("the rotor's minimum-power speed against an untilted Glauert rotor and
   CHECK(v_best > 1.5 * h.hover_induced_mps);
 }
 
-TEST_CASE("a helicopter in level flight at 210 ft/s: the textbook exercise's induced, profile and parasite power") {
+TEST_CASE("a helicopter in level flight at 210 ft/s: the textbook exercise: induced and profile and parasite power") {
   // J. G. Leishman, Principles of Helicopter Aerodynamics, 2nd ed., 2006, ch. 5, exercise 5.3
   // (data as printed there, in its units): level flight at V = 210 ft/s with 655 hp at the shaft,
   // W = 6000 lb, ρ = 0.00200 slug/ft³, R = 19 ft, σ = 0.08, ΩR = 700 ft/s, κ = 1.15,
