@@ -2,6 +2,7 @@
 
 #include <map>
 
+#include "cli/profile_load.hpp"
 #include "core/error.hpp"
 #include "io/flight_log_csv.hpp"
 
@@ -15,7 +16,7 @@ LogAgainstPlan check_log_against_plan(const std::string& log, const std::string&
   sim::SimOptions so;
   so.sample_s = 1.0;
   const sim::MissionResult plan = sim::simulate(lp.mission, so);
-  if (plan.refused) throw InputError(io::refusal_message(lp, plan));
+  if (plan.refused) throw InputError(refusal_message(lp, plan));
   LogAgainstPlan out{sim::MeasuredFlight{fl.time_s, fl.voltage_V, fl.current_A, fl.lines}, {}};
   out.check = sim::check_flight(lp.mission, plan, out.flight, log);
   return out;

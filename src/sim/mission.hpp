@@ -14,6 +14,7 @@
 #include "flight/environment.hpp"
 #include "flight/fixed_wing.hpp"
 #include "flight/mission.hpp"
+#include "plan/mission.hpp"
 #include "propulsion/drive.hpp"
 #include "sim/best_speeds.hpp"
 #include "sim/model_range.hpp"
@@ -21,17 +22,8 @@
 
 namespace sortie::sim {
 
-/// Everything one flight needs, loaded and validated.
-struct Mission {
-  std::string name;
-  flight::Airframe airframe;
-  propulsion::Drive drive;
-  battery::Pack pack;
-  double avionics_W = 0.0;  ///< avionics and payload electrical load, W
-  flight::Environment environment;
-  std::vector<flight::Phase> phases;
-  flight::Reserve reserve;
-};
+/// Everything one flight needs (plan/mission.hpp).
+using plan::Mission;
 
 struct SimOptions {
   double sample_s = 0.0;  ///< trace spacing, s (0: no trace)
