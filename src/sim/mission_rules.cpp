@@ -131,7 +131,8 @@ void reserve_time(Flight& f) {
   std::vector<std::string> ignored;
   const auto setup = setup_stretch(m, reserve_hold(f), 0.0, out.all_up_mass_kg, why, field, ignored);
   if (!setup) {
-    out.reserve_time_end = "refused: " + why;
+    out.reserve_time_end = EndKind::refused;
+    out.reserve_time_refusal = why;
     return;
   }
   const double floor_v = std::max(f.cutoff, m.reserve.v_load_cell_min_V.value_or(0.0));
@@ -150,7 +151,7 @@ void reserve_time(Flight& f) {
   so.context = "reserve time at landing";
   const auto seg = run_segment(f.pm, setup->demand, f.t, f.x, ev, so);
   out.reserve_time_s = seg.end.t - f.t;
-  out.reserve_time_end = seg.stopped ? ev[*seg.stopped].kind : "";
+  if (seg.stopped) out.reserve_time_end = end_kind_named(ev[*seg.stopped].kind);
 }
 
 void reserve_rules(Flight& f) {
@@ -166,9 +167,9 @@ void reserve_rules(Flight& f) {
   if (m.reserve.hover_s) {
     RuleCheck& r = add_rule(out, "hover_s", "s", *m.reserve.hover_s, out.reserve_time_s);
     at_landing(f, r);
-    if (out.reserve_time_end.rfind("refused: ", 0) == 0) {
+    if (out.reserve_time_end == EndKind::refused) {
       r.pass = false;
-      r.note = "the hold at the field cannot be flown: " + out.reserve_time_end.substr(9);
+      r.note = "the hold at the field cannot be flown: " + out.reserve_time_refusal;
     }
   }
   if (m.reserve.v_rest_cell_min_V)
