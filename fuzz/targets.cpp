@@ -13,6 +13,7 @@
 #include <fcntl.h>
 #include <unistd.h>
 
+#include "cli/profile_load.hpp"
 #include "cli/run.hpp"
 #include "core/error.hpp"
 #include "fit/fit_cell.hpp"
@@ -202,14 +203,14 @@ void run_airframe(const std::string& text) {
 }
 
 void run_profile(const std::string& text) {
-  const io::LoadedProfile lp = io::parse_profile_json(text, source_in("profiles", "fuzz-profile.json"));
+  const io::LoadedProfile lp = cli::parse_profile(text, source_in("profiles", "fuzz-profile.json"));
   sim::SimOptions so;
   so.sample_s = 5.0;  // as `sortie fly --trace --sample-s 5`
   so.max_steps_per_phase = kMaxSteps;
   so.max_trace_samples = kMaxSamples;
   const sim::MissionResult r = sim::simulate(lp.mission, so);
   if (r.refused) {
-    (void)io::refusal_message(lp, r);
+    (void)cli::refusal_message(lp, r);
     return;
   }
   require_finite(r.flight_time_s, "flight time");

@@ -9,7 +9,7 @@
 #include "core/text.hpp"
 #include "io/flight_log_csv.hpp"
 #include "io/output.hpp"
-#include "io/profile_json.hpp"
+#include "cli/profile_load.hpp"
 #include "report/flight_check_report.hpp"
 #include "sim/flight_check.hpp"
 
@@ -25,7 +25,7 @@ struct CheckOptions {
 
 int run_check(const CheckOptions& o) {
   const bool print = print_format(o.report, {{"--json", &o.json_file}, {"--trace", &o.trace_file}}, o.quiet);
-  const io::LoadedProfile lp = io::load_profile_file(o.profile, o.pack);
+  const io::LoadedProfile lp = load_profile(o.profile, o.pack);
   const LogAgainstPlan r = check_log_against_plan(o.log, o.columns, lp);
   const sim::MeasuredFlight& mf = r.flight;
   const sim::FlightCheck& c = r.check;

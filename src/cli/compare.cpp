@@ -16,7 +16,7 @@
 #include "core/text.hpp"
 #include "io/battery_json.hpp"
 #include "io/output.hpp"
-#include "io/profile_json.hpp"
+#include "cli/profile_load.hpp"
 #include "report/compare_report.hpp"
 #include "report/html_compare.hpp"
 #include "report/result_csv.hpp"
@@ -56,11 +56,11 @@ void progress_bar(std::size_t done, std::size_t total) {
 
 int run_compare(const CompareOptions& o) {
   const bool print = print_format(o.report, {{"--json", &o.json_file}}, o.quiet);
-  io::LoadedProfile lp = io::load_profile_file(o.profile);
+  io::LoadedProfile lp = load_profile(o.profile);
   std::vector<sim::Override> overrides = apply_what_if(lp.mission, o.what_if);
   // The loader's cross-checks again on the changed mission (a fixed-wing airframe on a hover, a
   // cell whose maximum is below the reserve voltage, a wind no leg makes headway in).
-  if (!overrides.empty()) io::check_profile(lp);
+  if (!overrides.empty()) cli::check_profile(lp);
   std::vector<sim::PackCandidate> cands;
   if (!o.packs.empty()) {
     for (const auto& f : o.packs) {

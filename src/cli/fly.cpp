@@ -12,7 +12,7 @@
 #include "core/error.hpp"
 #include "core/text.hpp"
 #include "io/output.hpp"
-#include "io/profile_json.hpp"
+#include "cli/profile_load.hpp"
 #include "io/spreads_json.hpp"
 #include "report/html_fly.hpp"
 #include "report/mission_report.hpp"
@@ -103,12 +103,12 @@ std::string with_overrides(std::string text, const std::vector<sim::Override>& o
 
 int run_fly(const FlyOptions& o) {
   const bool print = print_format(o.report, {{"--json", &o.json_file}, {"--trace", &o.trace_file}}, o.quiet);
-  io::LoadedProfile lp = io::load_profile_file(o.profile, o.pack);
+  io::LoadedProfile lp = load_profile(o.profile, o.pack);
   std::vector<sim::Override> overrides = logbook_override(lp.mission, o.logbook, o.pack_id, !o.pack.empty());
   for (auto& w : apply_what_if(lp.mission, o.what_if)) overrides.push_back(std::move(w));
   // The loader's cross-checks again on the changed mission (a fixed-wing airframe on a hover, a
   // cell whose maximum is below the reserve voltage, a wind no leg makes headway in).
-  if (!overrides.empty()) io::check_profile(lp);
+  if (!overrides.empty()) cli::check_profile(lp);
   if (o.samples > 0) {
     if (!o.sweeps.empty()) throw UsageError("--samples: not with --sweep (expected one or the other)");
     if (!o.trace_file.empty()) throw UsageError("--trace: not with --samples (a sampled run keeps no trace)");
@@ -124,7 +124,7 @@ int run_fly(const FlyOptions& o) {
   so.stop_at_coverage = o.stop_at_coverage;
   so.accept_extrapolation = o.accept_extrapolation;
   sim::MissionResult r = sim::simulate(lp.mission, so);
-  if (r.refused) throw InputError(io::refusal_message(lp, r));
+  if (r.refused) throw InputError(refusal_message(lp, r));
   r.best_speeds = sim::best_speeds(lp.mission);
   if (lp.mission.environment.wind.speed_mps > 0.0)
     r.best_speeds_headwind = sim::best_speeds(lp.mission, 0.0, lp.mission.environment.wind.speed_mps, 0.0);

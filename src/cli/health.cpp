@@ -13,7 +13,7 @@
 #include "io/battery_json.hpp"
 #include "io/flight_log_csv.hpp"
 #include "io/output.hpp"
-#include "io/profile_json.hpp"
+#include "cli/profile_load.hpp"
 #include "report/health_report.hpp"
 #include "report/text_table.hpp"
 
@@ -43,7 +43,7 @@ struct HealthCliOptions {
 /// The pack and the air its cells cool in: a profile's at its field, or a pack file's own.
 battery::Pack load_health_pack(const HealthCliOptions& o) {
   if (!o.profile.empty()) {
-    const io::LoadedProfile lp = io::load_profile_file(o.profile, o.pack);
+    const io::LoadedProfile lp = load_profile(o.profile, o.pack);
     battery::Pack p = lp.mission.pack;
     if (!p.air_C)
       if (const auto air = lp.mission.environment.atmosphere.at(0.0)) p.air_C = air->temperature_K - 273.15;

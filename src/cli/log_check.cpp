@@ -2,6 +2,7 @@
 
 #include <map>
 
+#include "cli/profile_load.hpp"
 #include "core/error.hpp"
 #include "estimate/cell_count.hpp"
 #include "io/flight_log_csv.hpp"
@@ -18,7 +19,7 @@ LogAgainstPlan check_log_against_plan(const std::string& log, const std::string&
   sim::SimOptions so;
   so.sample_s = 1.0;
   const sim::MissionResult plan = sim::simulate(lp.mission, so);
-  if (plan.refused) throw InputError(io::refusal_message(lp, plan));
+  if (plan.refused) throw InputError(refusal_message(lp, plan));
   out.check = sim::check_flight(lp.mission, plan, out.flight, log);
   return out;
 }

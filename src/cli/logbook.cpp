@@ -17,7 +17,7 @@
 #include "io/csv.hpp"
 #include "io/flight_log_csv.hpp"
 #include "io/output.hpp"
-#include "io/profile_json.hpp"
+#include "cli/profile_load.hpp"
 #include "logbook/logbook.hpp"
 #include "logbook/trend.hpp"
 #include "report/logbook_report.hpp"
@@ -130,9 +130,9 @@ int run_add_flight(const LogbookOptions& o) {
   // The check, as `sortie check LOG --profile P` with the pack as stored in the logbook (its own
   // soh block: the plan as it would have been made from the pack file).
   const LogbookPack lb = logbook_pack(db, o.pack_id, false);
-  io::LoadedProfile lp = io::load_profile_file(o.profile);
+  io::LoadedProfile lp = load_profile(o.profile);
   lp.mission.pack = lb.pack;
-  io::check_profile(lp);
+  cli::check_profile(lp);
   const LogAgainstPlan r = check_log_against_plan(o.log, o.columns, lp);
   const sim::MeasuredFlight& mf = r.flight;
   const sim::FlightCheck& c = r.check;

@@ -12,7 +12,7 @@
 #include "estimate/soc_filter.hpp"
 #include "io/flight_log_csv.hpp"
 #include "io/output.hpp"
-#include "io/profile_json.hpp"
+#include "cli/profile_load.hpp"
 #include "report/remaining_report.hpp"
 #include "report/text_table.hpp"
 
@@ -42,7 +42,7 @@ int run_remaining(const RemainingCliOptions& o) {
   const auto cols = o.columns.empty() ? std::map<std::string, io::ColumnRef>{}
                                       : io::parse_column_spec(o.columns, io::flight_log_quantities());
   const io::FlightLog fl = io::read_flight_log_file(o.log, cols);
-  const io::LoadedProfile lp = io::load_profile_file(o.profile, o.pack);
+  const io::LoadedProfile lp = load_profile(o.profile, o.pack);
   battery::Pack pack = lp.mission.pack;
   if (!pack.air_C)
     if (const auto air = lp.mission.environment.atmosphere.at(0.0)) pack.air_C = air->temperature_K - 273.15;

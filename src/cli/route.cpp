@@ -16,7 +16,7 @@
 #include "geo/geodesy.hpp"
 #include "io/geojson.hpp"
 #include "io/output.hpp"
-#include "io/profile_json.hpp"
+#include "cli/profile_load.hpp"
 #include "io/profile_write.hpp"
 #include "plan/legs.hpp"
 #include "plan/survey.hpp"
@@ -73,7 +73,7 @@ geo::LonLat parse_home(const std::string& s) {
 
 int run_route(const RouteOptions& o) {
   const io::GeoInput g = io::load_geojson_file(o.geometry);
-  const io::LoadedProfile base = io::load_profile_file(o.profile);
+  const io::LoadedProfile base = load_profile(o.profile);
   const nlohmann::json base_json = io::load_json_file(o.profile);
   const bool fixed_wing = std::holds_alternative<flight::FixedWing>(base.mission.airframe);
   const bool survey = !g.ring.empty();
@@ -245,7 +245,7 @@ int run_route(const RouteOptions& o) {
   // The loader must read back what is written (checked before anything is written).
   // A phase the loader refuses (a ramp too slow for the wind, say) names the phase in the
   // profile that would have been written; it is not written.
-  const io::LoadedProfile gen = io::parse_profile_json(content, io::Source{o.out + " (generated, not written)", out_dir});
+  const io::LoadedProfile gen = parse_profile(content, io::Source{o.out + " (generated, not written)", out_dir});
   std::string predicted, page;
   if (!o.html.empty() && o.predict.empty()) throw UsageError("--html needs --predict (the plan view shows the flown predictions)");
   if (!o.predict.empty()) {
@@ -253,7 +253,7 @@ int run_route(const RouteOptions& o) {
     sim::SimOptions so;
     so.sample_s = 1.0;
     const sim::MissionResult res = sim::simulate(gen.mission, so);
-    if (res.refused) throw InputError(io::refusal_message(gen, res));
+    if (res.refused) throw InputError(refusal_message(gen, res));
     const sim::TurnHome th = sim::solve_turn_home(gen.mission);
     const geo::LonLat start = survey ? planned.front().end : g.route.front().at;
     const nlohmann::json rg = report::route_geojson(start, planned, gen.mission, res, th);

@@ -6,8 +6,8 @@
 
 namespace sortie::io {
 
-sim::LoadSeries read_load_csv(const CsvFile& csv, std::optional<bool> step_override) {
-  sim::LoadSeries s;
+plan::LoadSeries read_load_csv(const CsvFile& csv, std::optional<bool> step_override) {
+  plan::LoadSeries s;
   const std::size_t ct = csv.require_column({"time_s"}, "time (s)");
   const auto ci = csv.find_column({"current_A"});
   const auto cp = csv.find_column({"power_W"});
@@ -16,7 +16,7 @@ sim::LoadSeries read_load_csv(const CsvFile& csv, std::optional<bool> step_overr
                      ": both current_A and power_W columns (expected one of them)");
   if (!ci && !cp) csv.require_column({"current_A", "power_W"}, "the load (A or W)");
   const std::size_t cv = ci ? *ci : *cp;
-  s.quantity = ci ? sim::LoadSeries::Quantity::current : sim::LoadSeries::Quantity::power;
+  s.quantity = ci ? plan::LoadSeries::Quantity::current : plan::LoadSeries::Quantity::power;
   for (const auto& c : csv.comments) {
     if (c.rfind("interpolation:", 0) != 0) continue;
     std::string mode = c.substr(14);
@@ -44,7 +44,7 @@ sim::LoadSeries read_load_csv(const CsvFile& csv, std::optional<bool> step_overr
   return s;
 }
 
-sim::LoadSeries load_load_csv(const std::filesystem::path& path, std::optional<bool> step_override) {
+plan::LoadSeries load_load_csv(const std::filesystem::path& path, std::optional<bool> step_override) {
   return read_load_csv(read_csv(path), step_override);
 }
 

@@ -5,13 +5,13 @@
 #include <optional>
 
 #include "io/csv.hpp"
-#include "sim/discharge.hpp"
+#include "plan/load_series.hpp"
 
 namespace sortie::io {
 
 /// `step_override`: true/false forces step/linear whatever the file says.
-sim::LoadSeries read_load_csv(const CsvFile& csv, std::optional<bool> step_override = {});
-sim::LoadSeries load_load_csv(const std::filesystem::path& path,
+plan::LoadSeries read_load_csv(const CsvFile& csv, std::optional<bool> step_override = {});
+plan::LoadSeries load_load_csv(const std::filesystem::path& path,
                               std::optional<bool> step_override = {});
 
 }  // namespace sortie::io

@@ -5,15 +5,13 @@
 #include "io/battery_json.hpp"
 #include "io/drive_json.hpp"
 #include "io/mission_json.hpp"
-#include "sim/best_speeds.hpp"
-#include "flight/wind.hpp"
 
 namespace sortie::io {
 
 using flight::Phase;
 
 void check_profile(const LoadedProfile& p_) {
-  const sim::Mission& m = p_.mission;
+  const plan::Mission& m = p_.mission;
   // Checks that need the airframe and the phases together.
   const bool fixed_wing = std::holds_alternative<flight::FixedWing>(m.airframe);
   for (std::size_t i = 0; i < m.phases.size(); ++i) {
@@ -44,15 +42,6 @@ void check_profile(const LoadedProfile& p_) {
     throw InputError(message(p_.source, "/reserve/v_rest_cell_min_V", "reserve voltage at or above the cell's maximum",
                              format_number(*m.reserve.v_rest_cell_min_V) + " V",
                              "below " + format_number(m.pack.cell.v_max_V) + " V"));
-  for (std::size_t i = 0; i < m.phases.size(); ++i) {
-    const Phase& p = m.phases[i];
-    if (p.kind != Phase::Kind::cruise || p.duration_s) continue;
-    if (!sim::planned_duration_s(m, i)) {
-      const auto leg = flight::solve_leg(m.environment.wind, p.track_deg, sim::phase_airspeed_mps(m, i));
-      throw InputError(message(p_.source, p_.phase_pointers[i] + "/airspeed_mps", leg.detail,
-                               format_number(p.airspeed_mps) + " m/s", "an airspeed that makes headway in this wind"));
-    }
-  }
 }
 
 namespace {
@@ -62,7 +51,7 @@ LoadedProfile read_profile(ObjectReader& r, const std::string& default_name,
                            const std::filesystem::path& pack_override) {
   LoadedProfile out;
   out.source = r.source();
-  sim::Mission& m = out.mission;
+  plan::Mission& m = out.mission;
   m.name = r.string_or("name", default_name);
   {
     ObjectReader a = r.model("airframe");
@@ -108,13 +97,6 @@ LoadedProfile parse_profile_json(const std::string& text, const Source& src,
                                  const std::filesystem::path& pack_override) {
   ObjectReader r = open_model_text(text, src);
   return read_profile(r, std::filesystem::path(src.file).stem().string(), pack_override);
-}
-
-std::string refusal_message(const LoadedProfile& p, const sim::MissionResult& r) {
-  const std::string ptr = r.end_phase >= 0 && static_cast<std::size_t>(r.end_phase) < p.phase_pointers.size()
-                              ? p.phase_pointers[r.end_phase] + "/" + r.refusal_field
-                              : "";
-  return message(p.source, ptr, "this phase cannot be flown: " + r.end_detail);
 }
 
 }  // namespace sortie::io

@@ -6,12 +6,12 @@
 #include <vector>
 
 #include "io/json_reader.hpp"
-#include "sim/mission.hpp"
+#include "plan/mission.hpp"
 
 namespace sortie::io {
 
 struct LoadedProfile {
-  sim::Mission mission;
+  plan::Mission mission;
   Source source;                             ///< the profile file
   std::vector<std::string> phase_pointers;   ///< "/phases/0", ... for messages
 };
@@ -26,12 +26,10 @@ LoadedProfile parse_profile_json(const std::string& text, const Source& src,
                                  const std::filesystem::path& pack_override = {});
 
 /// The checks that need the airframe, the pack and the phases together (a fixed wing does not
-/// hover, a multirotor does not bank, reserve voltages below the cell's maximum, every cruise
-/// leg makes headway in the wind); load_profile_file runs them, and a caller that changes the
-/// mission after loading (what-if options) runs them again.
+/// hover, a multirotor does not bank, reserve voltages below the cell's maximum);
+/// load_profile_file runs them, and a caller that changes the mission after loading (what-if
+/// options) runs them again. Whether every cruise leg makes headway needs the airspeeds the
+/// power model chooses: cli::check_profile adds that check.
 void check_profile(const LoadedProfile& p);
-
-/// The one-line error for a phase the airframe or drive cannot fly (a simulation refusal).
-std::string refusal_message(const LoadedProfile& p, const sim::MissionResult& r);
 
 }  // namespace sortie::io

@@ -2,8 +2,8 @@
 
 namespace sortie::io {
 
-sim::Spreads read_spreads(ObjectReader& r) {
-  sim::Spreads s;
+plan::Spreads read_spreads(ObjectReader& r) {
+  plan::Spreads s;
   // Bounds: a spread past these is a unit slip (a percentage for a fraction, a speed in km/h).
   s.cell_capacity_sd = r.number_or("cell_capacity_sd", s.cell_capacity_sd, between(0.0, 0.5, ""));
   s.cell_resistance_sd = r.number_or("cell_resistance_sd", s.cell_resistance_sd, between(0.0, 1.0, ""));
@@ -19,12 +19,12 @@ sim::Spreads read_spreads(ObjectReader& r) {
   return s;
 }
 
-sim::Spreads load_spreads_file(const std::filesystem::path& path) {
+plan::Spreads load_spreads_file(const std::filesystem::path& path) {
   ObjectReader r = open_model_file(path);
   return read_spreads(r);
 }
 
-sim::Spreads parse_spreads_json(const std::string& text, const Source& src) {
+plan::Spreads parse_spreads_json(const std::string& text, const Source& src) {
   ObjectReader r = open_model_text(text, src);
   return read_spreads(r);
 }

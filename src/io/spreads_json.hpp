@@ -4,13 +4,13 @@
 #include <string>
 
 #include "io/json_reader.hpp"
-#include "sim/uncertainty.hpp"
+#include "plan/spreads.hpp"
 
 namespace sortie::io {
 
-/// Every key optional (its default is sim::Spreads's); unknown keys refused.
-sim::Spreads read_spreads(ObjectReader& r);
-sim::Spreads load_spreads_file(const std::filesystem::path& path);
-sim::Spreads parse_spreads_json(const std::string& text, const Source& src);
+/// Every key optional (its default is plan::Spreads's); unknown keys refused.
+plan::Spreads read_spreads(ObjectReader& r);
+plan::Spreads load_spreads_file(const std::filesystem::path& path);
+plan::Spreads parse_spreads_json(const std::string& text, const Source& src);
 
 }  // namespace sortie::io

@@ -29,12 +29,17 @@ bool has_spare(const sim::CompareRow& row) {
 }
 
 /// How a flight ended early, in words.
-std::string end_words(const std::string& kind) {
-  if (kind == "cutoff_voltage") return "cells at cutoff";
-  if (kind == "saturation") return "out of thrust";
-  if (kind == "power_collapse") return "power collapse";
-  if (kind == "soc_floor") return "pack empty";
-  return kind;
+std::string end_words(const std::optional<sim::EndKind>& kind) {
+  if (!kind) return "";
+  switch (*kind) {
+    case sim::EndKind::cutoff_voltage: return "cells at cutoff";
+    case sim::EndKind::saturation: return "out of thrust";
+    case sim::EndKind::power_collapse: return "power collapse";
+    case sim::EndKind::soc_floor: return "pack empty";
+    case sim::EndKind::coverage_floor:
+    case sim::EndKind::refused: break;
+  }
+  return sim::to_string(*kind);
 }
 
 /// Why a row is no-go, in a few words for its bar.

@@ -186,9 +186,9 @@ std::string fly_text(const sim::Mission& m, const MissionResult& r, const sim::S
     const bool to_floor = std::any_of(r.rules.begin(), r.rules.end(), [](const sim::RuleCheck& c) { return c.name == "soc_covered"; });
     land.add("time on station left at landing",
              fixed(r.reserve_time_s, 0) + " s" +
-                 (r.reserve_time_end.empty() ? "" : ", until " + (r.reserve_time_end.rfind("refused: ", 0) == 0
-                                                                      ? r.reserve_time_end
-                                                                      : rule_words(r.reserve_time_end))) +
+                 (!r.reserve_time_end ? "" : ", until " + (*r.reserve_time_end == sim::EndKind::refused
+                                                                    ? sim::end_text(r.reserve_time_end, r.reserve_time_refusal)
+                                                                    : rule_words(sim::to_string(*r.reserve_time_end)))) +
                  (to_floor ? " (down to " + fixed(r.soc_floor_covered * 100, 1) + " % charge, the lowest the cell model has data for)" : ""));
   }
   if (s.phase) land.add("spare time", spare_words(m, s));
@@ -262,7 +262,7 @@ nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim
   j["verdict"] = r.go ? "go" : "no-go";
   j["verdict_text"] = verdict_line(m, r, s);
   j["completed"] = r.completed;
-  if (!r.completed) j["end"] = {{"kind", r.end_kind}, {"phase", phase_number_or_null(r.end_phase)}, {"detail", r.end_detail}};
+  if (!r.completed) j["end"] = {{"kind", sim::end_text(r.end_kind)}, {"phase", phase_number_or_null(r.end_phase)}, {"detail", r.end_detail}};
   j["flight_time_s"] = r.flight_time_s;
   // spare_s only when it is a solved figure: null when nothing is lengthened, when the search
   // stopped at its cap (spare.at_least_s) or when no length of the phase meets the rules.
@@ -292,7 +292,7 @@ nlohmann::json fly_json(const sim::Mission& m, const MissionResult& r, const sim
   j["eta_mean"] = r.eta_mean;
   j["landing"] = {{"soc", r.landing.soc}, {"energy_Wh", r.landing.energy_Wh},
                   {"v_rest_cell_V", r.landing.v_rest_cell_V}, {"v_load_cell_V", r.landing.v_load_cell_V},
-                  {"reserve_time_s", r.reserve_time_s}, {"reserve_time_end", r.reserve_time_end}};
+                  {"reserve_time_s", r.reserve_time_s}, {"reserve_time_end", sim::end_text(r.reserve_time_end, r.reserve_time_refusal)}};
   if (r.thermal)
     j["cell_temperature_C"] = {{"start", r.temperature_start_C}, {"landing", r.landing.temperature_C},
                                {"max", r.temperature_max_C}, {"air", r.air_C}};

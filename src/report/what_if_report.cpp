@@ -40,7 +40,7 @@ nlohmann::json point_json(const sim::SweepResult& s, const sim::PointResult& p) 
   j["refused"] = p.refused;
   j["go"] = p.go;
   j["completed"] = p.completed;
-  if (!p.end_kind.empty()) j["end_kind"] = p.end_kind;
+  if (p.end_kind) j["end_kind"] = sim::to_string(*p.end_kind);
   if (p.refused) j["end_detail"] = p.end_detail;
   j["flight_time_s"] = p.flight_time_s;
   j["landing_soc"] = p.landing_soc;

@@ -25,9 +25,13 @@
 
 #include "flight/mission.hpp"
 
+namespace sortie::plan {
+struct Mission;
+}
+
 namespace sortie::sim {
 
-struct Mission;
+using plan::Mission;
 
 inline constexpr double kSearchMax = 60.0;  ///< highest airspeed searched, m/s
 

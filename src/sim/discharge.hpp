@@ -4,19 +4,14 @@
 #include <vector>
 
 #include "battery/pack.hpp"
+#include "plan/load_series.hpp"
 #include "sim/model_range.hpp"
 #include "sim/segment.hpp"
 
 namespace sortie::sim {
 
-/// A load over time from a file: current or power at given times, held (step) or linear.
-struct LoadSeries {
-  enum class Quantity { current, power };
-  Quantity quantity = Quantity::current;
-  bool step = false;              ///< true: each value holds until the next time
-  std::vector<double> time_s;     ///< strictly increasing
-  std::vector<double> value;      ///< A or W
-};
+/// A load over time (plan/load_series.hpp).
+using plan::LoadSeries;
 
 struct DischargeSpec {
   enum class Load { current, power, series };

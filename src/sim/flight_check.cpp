@@ -152,7 +152,7 @@ FlightCheck check_flight(const Mission& m, const MissionResult& plan, const Meas
 
   // Station current: the plan's mean current over its spare phase (else the last hover/loiter).
   c.reserve_pred_s = plan.reserve_time_s;
-  c.reserve_end = plan.reserve_time_end;
+  c.reserve_end = end_text(plan.reserve_time_end, plan.reserve_time_refusal);
   std::optional<std::size_t> sp = spare_phase(m);
   if (sp && *sp < plan.phases.size() && plan.phases[*sp].duration_s > 0.0) {
     const PhaseSummary& ps = plan.phases[*sp];

@@ -153,7 +153,7 @@ void note_excursions(Flight& f) {
   for (auto it = out.excursions.begin(); it != out.excursions.end();) {
     // Stopped at the covered floor, the flight ends a hair below it (the event's time
     // tolerance): not an excursion.
-    if (out.end_kind == "coverage_floor" && f.t > 0 && it->quantity == "soc" && it->at_end && it->duration_s < 1e-3) {
+    if (out.end_kind == EndKind::coverage_floor && f.t > 0 && it->quantity == "soc" && it->at_end && it->duration_s < 1e-3) {
       it = out.excursions.erase(it);
       continue;
     }

@@ -14,24 +14,17 @@
 #include "flight/environment.hpp"
 #include "flight/fixed_wing.hpp"
 #include "flight/mission.hpp"
+#include "plan/mission.hpp"
 #include "propulsion/drive.hpp"
 #include "sim/best_speeds.hpp"
 #include "sim/model_range.hpp"
+#include "sim/outcome.hpp"
 #include "sim/segment.hpp"
 
 namespace sortie::sim {
 
-/// Everything one flight needs, loaded and validated.
-struct Mission {
-  std::string name;
-  flight::Airframe airframe;
-  propulsion::Drive drive;
-  battery::Pack pack;
-  double avionics_W = 0.0;  ///< avionics and payload electrical load, W
-  flight::Environment environment;
-  std::vector<flight::Phase> phases;
-  flight::Reserve reserve;
-};
+/// Everything one flight needs (plan/mission.hpp).
+using plan::Mission;
 
 struct SimOptions {
   double sample_s = 0.0;  ///< trace spacing, s (0: no trace)
@@ -130,7 +123,7 @@ struct Landing {
 
 struct MissionResult {
   bool completed = false;       ///< every phase flown to its end
-  std::string end_kind;         ///< when not completed: cutoff_voltage | saturation | power_collapse | soc_floor | coverage_floor | refused
+  std::optional<EndKind> end_kind;  ///< when not completed
   std::string end_detail;
   int end_phase = -1;
   bool refused = false;         ///< a phase asks for something the airframe or drive cannot do
@@ -149,8 +142,10 @@ struct MissionResult {
   Landing landing;
   double reserve_time_s = 0.0;  ///< time on station left at landing (hover or loiter), s
   /// What ended that time on station: the loaded voltage floor (cutoff_voltage), saturation,
-  /// power_collapse or soc_floor; empty when not computed.
-  std::string reserve_time_end;
+  /// power_collapse, soc_floor or coverage_floor; refused when the hold cannot be flown
+  /// (reserve_time_refusal says why); none when not computed.
+  std::optional<EndKind> reserve_time_end;
+  std::string reserve_time_refusal;
   double v_load_end_cell_V = 0.0;  ///< loaded cell voltage at the end of the flight, V
   /// Fixed wing only: stall, minimum-power and maximum-L/D speeds at the all-up mass in the
   /// air at the field.

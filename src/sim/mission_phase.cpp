@@ -53,17 +53,17 @@ std::vector<EventSpec> make_events(const Mission& m, const SegmentSetup& s, doub
   const double v_res = m.reserve.v_load_cell_min_V.value_or(-1.0);
   const double soc_res = m.reserve.soc_min.value_or(-1.0);
   return {
-      {"cutoff_voltage", [=](const Sample& x) { return x.term.v_terminal_V / S - cutoff_cell_V; }, true},
+      {to_string(EndKind::cutoff_voltage), [=](const Sample& x) { return x.term.v_terminal_V / S - cutoff_cell_V; }, true},
       // Saturation: the motor needs V_m but the ESC gives at most d_max·V_bus.
-      {"saturation", [=](const Sample& x) { return vm > 0 ? d_max * x.term.v_terminal_V - vm : 1.0; }, true},
-      {"power_collapse", [](const Sample& x) { return x.term.discriminant; }, true},
-      {"soc_floor", [](const Sample& x) { return x.x[battery::kSoc]; }, true},
+      {to_string(EndKind::saturation), [=](const Sample& x) { return vm > 0 ? d_max * x.term.v_terminal_V - vm : 1.0; }, true},
+      {to_string(EndKind::power_collapse), [](const Sample& x) { return x.term.discriminant; }, true},
+      {to_string(EndKind::soc_floor), [](const Sample& x) { return x.x[battery::kSoc]; }, true},
       {"reserve_v_load", [=](const Sample& x) { return v_res < 0 ? 1.0 : x.term.v_terminal_V / S - v_res; }, false},
       {"reserve_soc", [=](const Sample& x) { return soc_res < 0 ? 1.0 : x.x[battery::kSoc] - soc_res; }, false},
       {"over_current", [=](const Sample& x) { return i_limit - x.term.current_A; }, false},
       // With a thermal model the cells warm; without one their temperature stays and never crosses.
       {"cell_hot", [](const Sample& x) { return battery::kCellHotC - x.x[battery::kTemp]; }, false},
-      {"coverage_floor", [=](const Sample& x) { return coverage_floor < 0 ? 1.0 : x.x[battery::kSoc] - coverage_floor; }, true},
+      {to_string(EndKind::coverage_floor), [=](const Sample& x) { return coverage_floor < 0 ? 1.0 : x.x[battery::kSoc] - coverage_floor; }, true},
       // Back under the continuous limit: closes a spell above it (for the burst rule).
       {"under_current", [=](const Sample& x) { return x.term.current_A - i_limit; }, false},
   };
@@ -141,7 +141,7 @@ namespace {
 /// The flight ends refused in phase `r`.
 void refuse(Flight& f, const PhaseRun& r, const std::string& why, const std::string& field) {
   f.out.refused = true;
-  f.out.end_kind = "refused";
+  f.out.end_kind = EndKind::refused;
   f.out.end_detail = why;
   f.out.refusal_field = field;
   f.out.end_phase = r.pi;
@@ -348,9 +348,9 @@ void stop_flight(Flight& f, const PhaseRun& r, const SegmentSetup& s, const std:
   // A demand the pack cannot meet from the start of a stretch leaves the loaded voltage at
   // the vertex of the power curve, below the cutoff as well: the collapse is the reason.
   if (*seg.stopped == kCutoff && seg.end.term.collapsed) seg.stopped = kCollapse;
-  f.out.end_kind = events[*seg.stopped].kind;
+  f.out.end_kind = end_kind_named(events[*seg.stopped].kind);
   f.out.end_detail = stop_detail(f, s, seg, *seg.stopped);
-  f.out.events.push_back({f.t, f.out.end_kind, r.pi, f.out.end_detail});
+  f.out.events.push_back({f.t, events[*seg.stopped].kind, r.pi, f.out.end_detail});
 }
 
 /// Fly one stretch; false when the flight stops in it.

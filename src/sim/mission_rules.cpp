@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <string>
 
+#include "core/error.hpp"
 #include "core/text.hpp"
 #include "flight/atmosphere.hpp"
 #include "flight/fixed_wing.hpp"
@@ -23,6 +24,19 @@ double reserve_loiter_speed(const flight::FixedWing& w, double mass, double rho)
   return std::max(s.min_power_mps, 1.2 * s.stall_mps);
 }
 
+/// The air at the field, which the reserve hold and thrust-to-weight are reckoned in. Required:
+/// the loader's ranges (field elevation −500 m to 11 km, ISA offset ±60 K) always leave the
+/// field inside the ISA troposphere, and a mission built past them is refused here rather than
+/// reckoned in sea-level air nobody stated.
+flight::AirState field_air(const Mission& m) {
+  const auto air = m.environment.atmosphere.at(0.0);
+  if (!air)
+    throw InputError("environment: the field's air is outside the ISA troposphere model (got field_elevation_m " +
+                     format_number(m.environment.atmosphere.field_elevation_m) + " m, isa offset " +
+                     format_number(m.environment.atmosphere.isa_offset_K) + " K, expected -500 to 11000 m)");
+  return *air;
+}
+
 /// The hold flown for the reserve at the field: a hover, or a loiter at the minimum-power speed.
 Phase reserve_hold(const Flight& f) {
   Phase hold;
@@ -30,9 +44,8 @@ Phase reserve_hold(const Flight& f) {
     hold.kind = Phase::Kind::hover;
   } else {
     hold.kind = Phase::Kind::loiter;
-    const auto air = f.m.environment.atmosphere.at(0.0);
     hold.airspeed_mps = reserve_loiter_speed(std::get<flight::FixedWing>(f.m.airframe), f.out.all_up_mass_kg,
-                                             air ? air->density_kg_m3 : 1.225);
+                                             field_air(f.m).density_kg_m3);
   }
   return hold;
 }
@@ -93,8 +106,7 @@ void cell_current_limits(Flight& f) {
 /// field, at the loaded bus voltage at take-off: T/W = N·T_max(V) / (m·g0).
 void thrust_to_weight_rule(Flight& f) {
   const Mission& m = f.m;
-  const auto air = m.environment.atmosphere.at(0.0);
-  const double rho = air ? air->density_kg_m3 : 1.225;
+  const double rho = field_air(m).density_kg_m3;
   const double tmax = m.drive.rotors * prop::thrust_available(m.drive, 0.0, rho, *f.v_takeoff_V);
   const double tw = tmax / (f.out.all_up_mass_kg * flight::kStandardGravity);
   RuleCheck& r = add_rule(f.out, "thrust_to_weight", "",
@@ -119,7 +131,8 @@ void reserve_time(Flight& f) {
   std::vector<std::string> ignored;
   const auto setup = setup_stretch(m, reserve_hold(f), 0.0, out.all_up_mass_kg, why, field, ignored);
   if (!setup) {
-    out.reserve_time_end = "refused: " + why;
+    out.reserve_time_end = EndKind::refused;
+    out.reserve_time_refusal = why;
     return;
   }
   const double floor_v = std::max(f.cutoff, m.reserve.v_load_cell_min_V.value_or(0.0));
@@ -138,7 +151,7 @@ void reserve_time(Flight& f) {
   so.context = "reserve time at landing";
   const auto seg = run_segment(f.pm, setup->demand, f.t, f.x, ev, so);
   out.reserve_time_s = seg.end.t - f.t;
-  out.reserve_time_end = seg.stopped ? ev[*seg.stopped].kind : "";
+  if (seg.stopped) out.reserve_time_end = end_kind_named(ev[*seg.stopped].kind);
 }
 
 void reserve_rules(Flight& f) {
@@ -154,9 +167,9 @@ void reserve_rules(Flight& f) {
   if (m.reserve.hover_s) {
     RuleCheck& r = add_rule(out, "hover_s", "s", *m.reserve.hover_s, out.reserve_time_s);
     at_landing(f, r);
-    if (out.reserve_time_end.rfind("refused: ", 0) == 0) {
+    if (out.reserve_time_end == EndKind::refused) {
       r.pass = false;
-      r.note = "the hold at the field cannot be flown: " + out.reserve_time_end.substr(9);
+      r.note = "the hold at the field cannot be flown: " + out.reserve_time_refusal;
     }
   }
   if (m.reserve.v_rest_cell_min_V)

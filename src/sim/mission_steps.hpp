@@ -11,6 +11,7 @@
 #include <vector>
 
 #include "battery/thevenin.hpp"
+#include "core/constants.hpp"
 #include "sim/mission.hpp"
 #include "sim/model_range.hpp"
 #include "sim/segment.hpp"
@@ -51,7 +52,7 @@ struct SegmentSetup {
   double thrust_N = 0.0;        ///< per rotor, as the airframe needs it
   double drive_thrust_N = 0.0;  ///< per rotor, as the drive was solved (sim/drive_solve.hpp)
   double axial_mps = 0.0;       ///< the drive's axial speed
-  double rho = 1.225;
+  double rho = core::kSeaLevelDensity;  ///< kg/m³; setup_stretch sets it from the stretch's air
   double shaft_W = 0.0;       ///< per rotor
   double motor_in_W = 0.0;    ///< per rotor, V_m·I_m
   double i_motor_A = 0.0;     ///< per rotor: the motor's and the ESC's output current

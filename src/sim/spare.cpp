@@ -56,7 +56,7 @@ std::vector<std::pair<double, std::string>> rule_margins(const Mission& m, const
   auto consider = [&](double v, const std::string& n) { out.emplace_back(v, n); };
   const double planned = r.rules.front().required;
   if (!r.completed) {
-    consider(-(planned - r.flight_time_s) / std::max(planned, 1.0), r.end_kind);
+    consider(-(planned - r.flight_time_s) / std::max(planned, 1.0), end_text(r.end_kind));
     return out;
   }
   const double cutoff = m.pack.cell.v_cutoff_V;

@@ -31,7 +31,8 @@ struct PointResult {
   bool refused = false;       ///< the mission cannot be flown at this point (end_detail says why)
   bool go = false;
   bool completed = false;
-  std::string end_kind, end_detail;
+  std::optional<EndKind> end_kind;
+  std::string end_detail;
   double flight_time_s = 0.0;
   double landing_soc = 0.0;
   std::optional<double> spare_s;   ///< none: not bounded, capped, or no spare phase

@@ -247,7 +247,7 @@ TEST_CASE("time left at landing and spare time match the constant-power discharg
   MESSAGE("time left " << r.reserve_time_s << " s, expected " << expected_hold << " s");
   CHECK(r.reserve_time_s > 600.0);
   CHECK(r.reserve_time_s == doctest::Approx(expected_hold).epsilon(2e-3));
-  CHECK(r.reserve_time_end == "soc_floor");
+  CHECK(r.reserve_time_end == sim::EndKind::soc_floor);
 
   m.reserve = {};
   m.reserve.soc_min = 0.25;
@@ -298,7 +298,7 @@ TEST_CASE("a flight that fails at take-off says what failed instead of zeros") {
   m.drive.motor.kv_rpm_per_V = 300;
   m.reserve.soc_min = 0.25;
   const auto r = sim::simulate(m);
-  REQUIRE(r.end_kind == "saturation");
+  REQUIRE(r.end_kind == sim::EndKind::saturation);
   CHECK(r.flight_time_s < 1e-3);
   CHECK_FALSE(rule(r, "soc_min").reached);
   const std::string v = report::verdict_line(m, r, sim::solve_spare(m, r));
@@ -314,7 +314,7 @@ TEST_CASE("a saturation message never reads short by zero") {
   m.pack.series = 2;
   m.drive.motor.kv_rpm_per_V = 300;
   const auto r = sim::simulate(m);
-  REQUIRE(r.end_kind == "saturation");
+  REQUIRE(r.end_kind == sim::EndKind::saturation);
   MESSAGE(r.end_detail);
   const auto at = r.end_detail.find("short by ");
   REQUIRE(at != std::string::npos);

@@ -123,7 +123,7 @@ TEST_CASE("fixed wing at the minimum-power speed: endurance matches Traub's clos
   REQUIRE_FALSE(speeds.min_power_below_stall);
 
   const auto r = sim::simulate(m);
-  REQUIRE(r.end_kind == "soc_floor");
+  REQUIRE(r.end_kind == sim::EndKind::soc_floor);
 
   const double W = mass * g0, S = w.wing_area_m2, K = 1.0 / (kPi * w.oswald_e * w.aspect_ratio);
   const double p_min = 2.0 / std::sqrt(rho * S) * std::pow(w.cd0, 0.25) * std::pow(2.0 * W * std::sqrt(K / 3.0), 1.5);
@@ -153,7 +153,7 @@ TEST_CASE("multirotor hover with an ideal battery: endurance is E·η / (N·T^1.
   m.environment.atmosphere.field_elevation_m = 800;
   m.phases = {phase(Phase::Kind::hover, 1e6)};
   const auto r = sim::simulate(m);
-  REQUIRE(r.end_kind == "soc_floor");
+  REQUIRE(r.end_kind == sim::EndKind::soc_floor);
 
   const double rho = m.environment.atmosphere.at(0.0)->density_kg_m3;
   // The rotors also carry the airframe's download f (default 0.03): T = W/(4·(1 − f)).
@@ -260,8 +260,8 @@ TEST_CASE("saturation ends the flight and says by how much the thrust falls shor
   m.drive.motor.kv_rpm_per_V = 300;
   const auto r = sim::simulate(m);
   CHECK_FALSE(r.go);
-  MESSAGE(r.end_kind << ": " << r.end_detail << " duty " << r.phases[0].duty_max);
-  CHECK(r.end_kind == "saturation");
+  MESSAGE(sim::end_text(r.end_kind) << ": " << r.end_detail << " duty " << r.phases[0].duty_max);
+  CHECK(r.end_kind == sim::EndKind::saturation);
   CHECK(r.end_detail.find("short by") != std::string::npos);
 }
 
@@ -331,7 +331,7 @@ TEST_CASE("mission below the covered SoC: the excursion time agrees with the tra
   stop.stop_at_coverage = true;
   const auto s = sim::simulate(m, stop);
   CHECK_FALSE(s.completed);
-  CHECK(s.end_kind == "coverage_floor");
+  CHECK(s.end_kind == sim::EndKind::coverage_floor);
   CHECK(s.landing.soc == doctest::Approx(floor).epsilon(1e-6));
   CHECK(std::fabs(s.flight_time_s - e.first_s) < 1e-3);
   CHECK(s.excursions.empty());

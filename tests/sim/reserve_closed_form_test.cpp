@@ -222,7 +222,7 @@ TEST_CASE("saturation ends the hover where the ESC's highest duty times the sagg
   su.duty_max = 0.98;
   sim::Mission m = su.mission(1e5);
   const auto r = sim::simulate(m);
-  REQUIRE(r.end_kind == "saturation");
+  REQUIRE(r.end_kind == sim::EndKind::saturation);
   const double soc_sat = (su.motor_V() / (0.98 * su.S) - su.v0) / su.k;
   REQUIRE(soc_sat > 0.45);
   REQUIRE(soc_sat < 0.65);

@@ -65,7 +65,7 @@ TEST_CASE("level cruise on a resistive pack: endurance within 3 % below Traub's 
   const double p_req = 0.5 * rho * V * V * V * S * w.cd0 + 2 * K * W * W / (rho * V * S);
   const double v_mean = 4 * (3.5 + 0.7 / 2);  // ∫₀¹ OCV dSoC for a linear OCV, pack
   const double traub_s = 3600.0 * kEta * v_mean * 5.0 / p_req;  // n = 1: R_t^0 = 1, E in h → s
-  MESSAGE("tool " << r.flight_time_s << " s (" << r.end_kind << "), Traub n = 1 " << traub_s << " s, ratio "
+  MESSAGE("tool " << r.flight_time_s << " s (" << sim::end_text(r.end_kind) << "), Traub n = 1 " << traub_s << " s, ratio "
                   << r.flight_time_s / traub_s);
   CHECK(r.flight_time_s < traub_s);
   CHECK(r.flight_time_s > 0.97 * traub_s);
