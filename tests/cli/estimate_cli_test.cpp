@@ -16,19 +16,7 @@ const std::string kProfile = "profiles/demo-quad-water-tank.json";
 const std::string kLog = "models/logs/demo-flight-quad-synthetic.csv";
 
 /// The demo log's header and comment lines and its first `rows` rows.
-std::string head_of_log(std::size_t rows) {
-  std::istringstream in(read_file(source_path(kLog)));
-  std::string line, out;
-  std::size_t data = 0;
-  bool header = false;
-  while (std::getline(in, line)) {
-    const bool is_data = header && !line.empty() && line[0] != '#';
-    if (!header && !line.empty() && line[0] != '#') header = true;
-    if (is_data && ++data > rows) break;
-    out += line + "\n";
-  }
-  return out;
-}
+std::string head_of_log(std::size_t rows) { return csv_head(source_path(kLog), rows); }
 }  // namespace
 
 TEST_SUITE("cli") {

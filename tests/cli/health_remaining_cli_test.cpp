@@ -46,19 +46,7 @@ std::string four_cell_log() {
 }
 
 /// The demo log's header and comment lines and its first `rows` rows.
-std::string head_of_log(std::size_t rows) {
-  std::istringstream in(read_file(source_path(kLog)));
-  std::string line, out;
-  std::size_t data = 0;
-  bool header = false;
-  while (std::getline(in, line)) {
-    const bool is_data = header && !line.empty() && line[0] != '#';
-    if (!header && !line.empty() && line[0] != '#') header = true;
-    if (is_data && ++data > rows) break;
-    out += line + "\n";
-  }
-  return out;
-}
+std::string head_of_log(std::size_t rows) { return csv_head(source_path(kLog), rows); }
 
 void refused_cell_count(const CliResult& r, const std::string& file) {
   CAPTURE(r.err);

@@ -1,5 +1,6 @@
 #pragma once
 // Run the sortie binary from a test and capture exit code, stdout and stderr.
+#include <cstddef>
 #include <string>
 #include <vector>
 
@@ -28,5 +29,8 @@ std::string write_work_file(const std::string& name, const std::string& content)
 
 bool file_exists(const std::string& path);
 std::string read_file(const std::string& path);
+
+/// A CSV file's comment lines, its header and its first `rows` data rows.
+std::string csv_head(const std::string& path, std::size_t rows);
 
 }  // namespace sortie::test

@@ -54,6 +54,20 @@ std::string read_file(const std::string& path) {
   return ss.str();
 }
 
+std::string csv_head(const std::string& path, std::size_t rows) {
+  std::istringstream in(read_file(path));
+  std::string line, out;
+  std::size_t data = 0;
+  bool header = false;
+  while (std::getline(in, line)) {
+    const bool is_data = header && !line.empty() && line[0] != '#';
+    if (!header && !line.empty() && line[0] != '#') header = true;
+    if (is_data && ++data > rows) break;
+    out += line + "\n";
+  }
+  return out;
+}
+
 CliResult run_sortie(const std::vector<std::string>& args) {
   static int counter = 0;
   const std::string base = work_path("cli-" + std::to_string(++counter));
